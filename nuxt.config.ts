@@ -1,0 +1,33 @@
+// Nuxt's configuration: modules, runtime settings filled from NUXT_* variables, and build choices.
+export default defineNuxtConfig({
+  compatibilityDate: '2026-11-01',
+  modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils'],
+  css: ['~/assets/css/main.css'],
+  devtools: { enabled: false },
+  telemetry: false,
+  app: {
+    head: {
+      htmlAttrs: { lang: 'en' },
+      title: 'Evenhand',
+      meta: [{ name: 'viewport', content: 'width=device-width, initial-scale=1' }],
+    },
+  },
+  runtimeConfig: {
+    db: {
+      host: '127.0.0.1',
+      port: 3306,
+      user: 'evenhand',
+      password: 'evenhand',
+      database: 'evenhand',
+    },
+    smtp: {
+      host: '127.0.0.1',
+      port: 2525,
+      from: 'Evenhand <no-reply@evenhand.test>',
+    },
+    public: {
+      appName: 'Evenhand',
+    },
+  },
+  typescript: { strict: true },
+})
