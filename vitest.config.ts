@@ -1,0 +1,39 @@
+import { defineConfig } from 'vitest/config'
+import { defineVitestProject } from '@nuxt/test-utils/config'
+
+// Four projects, cheapest first: the pure engine and utilities, composables in a Nuxt environment,
+// the API against a built server and a real MariaDB, and end-to-end runs in Debian's chromium.
+export default defineConfig({
+  test: {
+    projects: [
+      {
+        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node' },
+      },
+      await defineVitestProject({
+        test: { name: 'nuxt', include: ['tests/nuxt/**/*.test.ts'], environment: 'nuxt' },
+      }),
+      {
+        test: {
+          name: 'api',
+          include: ['tests/api/**/*.test.ts'],
+          environment: 'node',
+          globalSetup: ['tests/setup/global.ts'],
+          testTimeout: 30_000,
+          hookTimeout: 120_000,
+          fileParallelism: false,
+        },
+      },
+      {
+        test: {
+          name: 'e2e',
+          include: ['tests/e2e/**/*.test.ts'],
+          environment: 'node',
+          globalSetup: ['tests/setup/global.ts'],
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
+          fileParallelism: false,
+        },
+      },
+    ],
+  },
+})
