@@ -15,3 +15,22 @@ export const PedalEvent = z.object({
   timeMs: z.number().min(-60_000).max(3_600_000),
 })
 export type PedalEvent = z.infer<typeof PedalEvent>
+
+export const InputDevice = z.enum(['midi', 'screen', 'computer-keys'])
+export type InputDevice = z.infer<typeof InputDevice>
+
+/** What the browser sends to save an attempt; the server recomputes every grade from `events`. */
+export const AttemptInput = z.object({
+  /** Chosen by the client so that sending the same attempt twice stores it once. */
+  id: z.uuid(),
+  drillId: z.number().int().positive(),
+  drillVersion: z.number().int().positive(),
+  assignmentId: z.number().int().positive().nullable().optional(),
+  startedAt: z.iso.datetime({ offset: true }),
+  tempoBpm: z.number().min(20).max(320),
+  inputDevice: InputDevice,
+  deviceName: z.string().trim().max(200).optional(),
+  events: z.array(PlayedEvent).max(20_000),
+  pedal: z.array(PedalEvent).max(5_000).optional(),
+})
+export type AttemptInput = z.infer<typeof AttemptInput>
