@@ -29,5 +29,7 @@ export default defineNuxtConfig({
       appName: 'Evenhand',
     },
   },
+  // Tests build into their own folder so they can run while `npm start` serves .output.
+  nitro: process.env.EVENHAND_OUTPUT_DIR ? { output: { dir: process.env.EVENHAND_OUTPUT_DIR } } : {},
   typescript: { strict: true },
 })

@@ -1,0 +1,122 @@
+# Shared by scripts/start.sh and scripts/test.sh: install what is missing, run MariaDB on loopback.
+# Sourced, not run. Everything lives under .data/ (git-ignored) so a clone is self-contained.
+
+ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"
+DATA="$ROOT/.data"
+mkdir -p "$DATA"
+
+log() { printf '\033[1;34m[evenhand]\033[0m %s\n' "$*" >&2; }
+die() { printf '\033[1;31m[evenhand]\033[0m %s\n' "$*" >&2; exit 1; }
+
+as_root() {
+  if [ "$(id -u)" = 0 ]; then "$@"
+  elif command -v sudo >/dev/null 2>&1; then sudo "$@"
+  else die "need root to run: $*"
+  fi
+}
+
+APT_UPDATED=""
+apt_install() {
+  if [ -z "$APT_UPDATED" ]; then
+    log "apt-get update"
+    as_root apt-get update -qq >/dev/null
+    APT_UPDATED=1
+  fi
+  log "installing Debian packages: $*"
+  DEBIAN_FRONTEND=noninteractive as_root apt-get install -y -qq "$@" >/dev/null
+}
+
+# npm ci only when the lock file changed since the last install, so a second start is fast.
+ensure_node_modules() {
+  local stamp="$ROOT/node_modules/.evenhand-lock-hash" want
+  want="$(sha256sum "$ROOT/package-lock.json" | cut -d' ' -f1)"
+  if [ ! -f "$stamp" ] || [ "$(cat "$stamp")" != "$want" ]; then
+    log "installing npm packages (npm ci)"
+    (cd "$ROOT" && npm ci --no-audit --no-fund --loglevel=error)
+    echo "$want" > "$stamp"
+  fi
+}
+
+# A session password for sealed cookies, made once per clone and kept out of git.
+ensure_session_password() {
+  local file="$DATA/session-password"
+  if [ -z "${NUXT_SESSION_PASSWORD:-}" ]; then
+    [ -s "$file" ] || node -e "process.stdout.write(require('crypto').randomBytes(32).toString('hex'))" > "$file"
+    NUXT_SESSION_PASSWORD="$(cat "$file")"
+  fi
+  export NUXT_SESSION_PASSWORD
+}
+
+# Build into $1 unless the sources are unchanged since the last build there.
+ensure_build() {
+  local out="$1" stamp="$1/.evenhand-source-hash" want
+  want="$(cd "$ROOT" && git ls-files -co --exclude-standard -- app.vue pages components composables stores server shared layouts middleware plugins assets utils public nuxt.config.ts tailwind.config.ts package-lock.json 2>/dev/null | sort | xargs -d '\n' sha256sum 2>/dev/null | sha256sum | cut -d' ' -f1)"
+  if [ ! -f "$out/server/index.mjs" ] || [ ! -f "$stamp" ] || [ "$(cat "$stamp")" != "$want" ]; then
+    log "building the app into ${out#"$ROOT"/}"
+    (cd "$ROOT" && EVENHAND_OUTPUT_DIR="$out" node_modules/.bin/nuxi build >"$DATA/build.log" 2>&1) \
+      || { tail -40 "$DATA/build.log" >&2; die "build failed (full log: .data/build.log)"; }
+    echo "$want" > "$stamp"
+  fi
+}
+
+# wait_http URL: true once the URL answers 2xx (node's fetch, since a fresh machine may lack curl).
+wait_http() {
+  node -e "fetch(process.argv[1]).then(r => process.exit(r.ok ? 0 : 1), () => process.exit(1))" "$1"
+}
+
+ensure_mariadb_installed() {
+  command -v mariadbd >/dev/null 2>&1 || [ -x /usr/sbin/mariadbd ] || apt_install mariadb-server
+  export PATH="$PATH:/usr/sbin"
+}
+
+# start_mariadb NAME PORT: a private server with its data in .data/NAME, reachable on 127.0.0.1:PORT.
+start_mariadb() {
+  local name="$1" port="$2" dir="$DATA/$1"
+  MARIADB_SOCKET="$dir/mariadb.sock"
+  MARIADB_PIDFILE="$dir/mariadb.pid"
+  mkdir -p "$dir"
+  if mariadb-admin --no-defaults --socket="$MARIADB_SOCKET" -uroot ping >/dev/null 2>&1; then
+    log "MariaDB ($name) already running"
+    MARIADB_STARTED=""
+    return
+  fi
+  if [ ! -d "$dir/db/mysql" ]; then
+    log "initialising MariaDB data folder .data/$name/db"
+    mariadb-install-db --no-defaults --datadir="$dir/db" --user="$(id -un)" \
+      --auth-root-authentication-method=socket --skip-test-db >"$dir/install.log" 2>&1 \
+      || { cat "$dir/install.log" >&2; die "mariadb-install-db failed"; }
+  fi
+  log "starting MariaDB ($name) on 127.0.0.1:$port"
+  mariadbd --no-defaults --datadir="$dir/db" --socket="$MARIADB_SOCKET" --pid-file="$MARIADB_PIDFILE" \
+    --port="$port" --bind-address=127.0.0.1 --user="$(id -un)" --skip-name-resolve \
+    --character-set-server=utf8mb4 --collation-server=utf8mb4_unicode_ci \
+    --log-error="$dir/error.log" >/dev/null 2>&1 &
+  MARIADB_STARTED=$!
+  for _ in $(seq 1 100); do
+    mariadb-admin --no-defaults --socket="$MARIADB_SOCKET" -uroot ping >/dev/null 2>&1 && return
+    kill -0 "$MARIADB_STARTED" 2>/dev/null || { tail -20 "$dir/error.log" >&2; die "MariaDB did not start (is port $port taken? set DB_PORT)"; }
+    sleep 0.2
+  done
+  die "MariaDB did not answer within 20 s"
+}
+
+stop_mariadb() {
+  [ -n "${MARIADB_STARTED:-}" ] || return 0
+  log "stopping MariaDB"
+  mariadb-admin --no-defaults --socket="$MARIADB_SOCKET" -uroot shutdown >/dev/null 2>&1 || kill "$MARIADB_STARTED" 2>/dev/null
+  # The pid file goes before the process ends, so wait on the process itself.
+  for _ in $(seq 1 100); do kill -0 "$MARIADB_STARTED" 2>/dev/null || break; sleep 0.1; done
+  MARIADB_STARTED=""
+}
+
+# create_database DB USER PASSWORD [fresh]: the app's database and its own user, over the root socket.
+create_database() {
+  local db="$1" user="$2" pass="$3" fresh="${4:-}"
+  local sql=""
+  [ -n "$fresh" ] && sql="DROP DATABASE IF EXISTS \`$db\`;"
+  sql="$sql CREATE DATABASE IF NOT EXISTS \`$db\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;
+    CREATE USER IF NOT EXISTS '$user'@'127.0.0.1' IDENTIFIED BY '$pass';
+    ALTER USER '$user'@'127.0.0.1' IDENTIFIED BY '$pass';
+    GRANT ALL PRIVILEGES ON \`$db\`.* TO '$user'@'127.0.0.1';"
+  mariadb --no-defaults --socket="$MARIADB_SOCKET" -uroot -e "$sql"
+}

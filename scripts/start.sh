@@ -1,0 +1,55 @@
+#!/usr/bin/env bash
+# `npm start`: install what is missing, start MariaDB, migrate, seed the demo studio, build and serve.
+# Ctrl-C (SIGINT) or SIGTERM stops the app and the MariaDB this script started.
+set -euo pipefail
+source "$(dirname "$0")/lib/common.sh"
+
+PORT="${PORT:-3000}"
+DB_PORT="${DB_PORT:-3306}"
+HOST="${HOST:-127.0.0.1}"
+
+SERVER_PID=""
+cleanup() {
+  trap - EXIT INT TERM
+  if [ -n "$SERVER_PID" ] && kill -0 "$SERVER_PID" 2>/dev/null; then
+    log "stopping the app"
+    kill "$SERVER_PID" 2>/dev/null || true
+    wait "$SERVER_PID" 2>/dev/null || true
+  fi
+  stop_mariadb
+}
+trap cleanup EXIT
+trap 'exit 130' INT
+trap 'exit 143' TERM
+
+ensure_node_modules
+ensure_mariadb_installed
+ensure_session_password
+start_mariadb mariadb "$DB_PORT"
+create_database evenhand evenhand evenhand
+
+export NUXT_DB_HOST=127.0.0.1 NUXT_DB_PORT="$DB_PORT" NUXT_DB_USER=evenhand NUXT_DB_PASSWORD=evenhand NUXT_DB_DATABASE=evenhand
+(cd "$ROOT" && node_modules/.bin/tsx scripts/migrate.ts && node_modules/.bin/tsx scripts/seed.ts)
+ensure_build "$ROOT/.output"
+
+log "starting the app"
+HOST="$HOST" PORT="$PORT" NITRO_HOST="$HOST" NITRO_PORT="$PORT" node "$ROOT/.output/server/index.mjs" &
+SERVER_PID=$!
+for _ in $(seq 1 150); do
+  wait_http "http://$HOST:$PORT/api/health" && break
+  kill -0 "$SERVER_PID" 2>/dev/null || die "the app stopped during start-up"
+  sleep 0.2
+done
+
+cat >&2 <<MSG
+
+  Evenhand is running at http://$HOST:$PORT
+
+  Demo accounts (password for all: evenhand-demo — for the demo only):
+    teacher  teacher@evenhand.test
+    student  student@evenhand.test
+
+  Press Ctrl-C to stop the app and its MariaDB.
+
+MSG
+wait "$SERVER_PID"
