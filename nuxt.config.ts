@@ -2,7 +2,13 @@
 export default defineNuxtConfig({
   compatibilityDate: '2026-11-01',
   modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils'],
-  css: ['~/assets/css/main.css'],
+  css: [
+    '@fontsource/nunito/latin-400.css',
+    '@fontsource/nunito/latin-600.css',
+    '@fontsource/nunito/latin-700.css',
+    '@fontsource/nunito/latin-800.css',
+    '~/assets/css/main.css',
+  ],
   devtools: { enabled: false },
   telemetry: false,
   app: {

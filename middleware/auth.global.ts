@@ -1,0 +1,16 @@
+// Signed-out visitors go to sign-in; each role has its own home. The server checks roles again on every API call.
+const PUBLIC_PAGES = new Set(['/login', '/signup'])
+const ROLE_HOME = { teacher: '/teacher', student: '/student', admin: '/teacher' } as const
+
+export default defineNuxtRouteMiddleware((to) => {
+  const { loggedIn, user } = useUserSession()
+  if (!loggedIn.value || !user.value) {
+    return PUBLIC_PAGES.has(to.path) ? undefined : navigateTo({ path: '/login', query: to.path === '/' ? {} : { next: to.fullPath } })
+  }
+  const home = ROLE_HOME[user.value.role]
+  if (to.path === '/' || PUBLIC_PAGES.has(to.path)) return navigateTo(home)
+  const area = to.path.split('/')[1]
+  if ((area === 'teacher' && user.value.role === 'student') || (area === 'student' && user.value.role !== 'student')) {
+    return navigateTo(home)
+  }
+})

@@ -1,0 +1,9 @@
+import { AttemptInput } from '#shared/types/attempt'
+
+export default defineEventHandler(async (event) => {
+  const student = await requireRole(event, 'student')
+  const input = await validBody(event, AttemptInput)
+  const { attempt, created } = await saveAttempt(useDb(), student, input)
+  setResponseStatus(event, created ? 201 : 200)
+  return { attempt }
+})

@@ -1,0 +1,129 @@
+import type { Knex } from 'knex'
+import type { User } from '#auth-utils'
+import type { AttemptInput } from '#shared/types/attempt'
+import type { GradeResult } from '#shared/engine/types'
+import { ENGINE_VERSION, gradeAttempt } from '#shared/engine/grade'
+
+export interface AttemptSummary {
+  id: string
+  studentId: number
+  drillId: number
+  drillVersion: number
+  assignmentId: number | null
+  startedAt: string
+  tempoBpm: number
+  inputDevice: string
+  score: number
+  timingSdMs: number | null
+  velocitySd: number | null
+  positionChanges: { planned: number, played: number }
+  accuracy: GradeResult['accuracy']
+  engineVersion: string
+}
+
+export interface AttemptDetail extends AttemptSummary {
+  deviceName: string | null
+  events: AttemptInput['events']
+  pedal: NonNullable<AttemptInput['pedal']>
+  result: GradeResult
+  comments: { id: number, teacherId: number, teacherName: string, body: string, createdAt: string }[]
+}
+
+type AttemptRow = Record<string, unknown>
+
+export function toAttemptSummary(row: AttemptRow): AttemptSummary {
+  const result = parseJson<GradeResult>(row.result)
+  return {
+    id: String(row.id),
+    studentId: Number(row.student_id),
+    drillId: Number(row.drill_id),
+    drillVersion: Number(row.drill_version),
+    assignmentId: row.assignment_id == null ? null : Number(row.assignment_id),
+    startedAt: new Date(row.started_at as string).toISOString(),
+    tempoBpm: Number(row.tempo_bpm),
+    inputDevice: String(row.input_device),
+    score: Number(row.score),
+    timingSdMs: result.timing.sdMs,
+    velocitySd: result.loudness.sd,
+    positionChanges: { planned: result.positionChanges.planned, played: result.positionChanges.played },
+    accuracy: result.accuracy,
+    engineVersion: String(row.engine_version),
+  }
+}
+
+/** The columns a list needs; raw events stay out of lists because they are the bulk of a row. */
+export const SUMMARY_COLUMNS = ['id', 'student_id', 'drill_id', 'drill_version', 'assignment_id', 'started_at', 'tempo_bpm', 'input_device', 'score', 'result', 'engine_version']
+
+export async function loadAttempt(db: Knex, id: string): Promise<AttemptDetail | undefined> {
+  const row = await db('attempts').where({ id }).first()
+  if (!row) return undefined
+  const comments = await db('comments as c').join('users as u', 'u.id', 'c.teacher_id')
+    .where('c.attempt_id', id).orderBy('c.created_at')
+    .select('c.id', 'c.teacher_id', 'u.name', 'c.body', 'c.created_at')
+  return {
+    ...toAttemptSummary(row),
+    deviceName: row.device_name ?? null,
+    events: parseJson(row.events),
+    pedal: row.pedal ? parseJson(row.pedal) : [],
+    result: parseJson(row.result),
+    comments: comments.map(c => ({ id: Number(c.id), teacherId: Number(c.teacher_id), teacherName: c.name, body: c.body, createdAt: new Date(c.created_at).toISOString() })),
+  }
+}
+
+/**
+ * Grades an attempt on the server from its raw events (the browser's figures are never trusted) and stores it.
+ * Idempotent on the client's id: a second save of the same attempt returns the stored one.
+ */
+export async function saveAttempt(db: Knex, student: User, input: AttemptInput): Promise<{ attempt: AttemptDetail, created: boolean }> {
+  const existing = await db('attempts').where({ id: input.id }).first('student_id')
+  if (existing) return { attempt: await ownStored(db, student, input.id), created: false }
+
+  const drillVisible = await db.from(visibleDrillIds(db, student).as('v')).where('v.id', input.drillId).first()
+  if (!drillVisible) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'drillId: Drill not found' })
+  const drill = await drillVersion(db, input.drillId, input.drillVersion)
+  if (!drill) throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'drillVersion: This version of the drill does not exist' })
+
+  let targetBpm = drill.tempoBpm
+  if (input.assignmentId) {
+    const item = await assignmentsOfStudent(db, student.id).clone()
+      .join('drill_set_items as dsi', 'dsi.drill_set_id', 'a.drill_set_id')
+      .where('a.id', input.assignmentId).where('dsi.drill_id', input.drillId)
+      .first('dsi.target_tempo_bpm')
+    if (!item) throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'assignmentId: This assignment does not include the drill' })
+    targetBpm = item.target_tempo_bpm ?? targetBpm
+  }
+
+  const result = gradeAttempt({ hand: drill.hand, tempoBpm: drill.tempoBpm, notes: drill.notes }, input.events, { targetBpm })
+  try {
+    await db('attempts').insert({
+      id: input.id,
+      student_id: student.id,
+      drill_id: input.drillId,
+      drill_version: input.drillVersion,
+      assignment_id: input.assignmentId ?? null,
+      started_at: new Date(input.startedAt),
+      tempo_bpm: input.tempoBpm,
+      input_device: input.inputDevice,
+      device_name: input.deviceName ?? null,
+      events: JSON.stringify(input.events),
+      pedal: input.pedal ? JSON.stringify(input.pedal) : null,
+      score: Math.round(result.score),
+      result: JSON.stringify(result),
+      engine_version: ENGINE_VERSION,
+    })
+  }
+  catch (error) {
+    // Two copies of one attempt racing in: the first insert wins, the second reads it back.
+    if ((error as { code?: string }).code !== 'ER_DUP_ENTRY') throw error
+    return { attempt: await ownStored(db, student, input.id), created: false }
+  }
+  return { attempt: (await loadAttempt(db, input.id))!, created: true }
+}
+
+async function ownStored(db: Knex, student: User, id: string): Promise<AttemptDetail> {
+  const attempt = await loadAttempt(db, id)
+  if (!attempt || attempt.studentId !== student.id) {
+    throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'id: This attempt id is already taken' })
+  }
+  return attempt
+}
