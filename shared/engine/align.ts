@@ -1,0 +1,150 @@
+// Which played note answers which drill note: an edit-distance alignment over pitch and order.
+//
+// Both sides are brought into one canonical order first: drill notes by beat and then pitch,
+// played notes by onset, with notes struck within a small window (a chord) re-ordered by pitch.
+// The order inside a chord is therefore free, while the order of everything else counts.
+// Costs: same pitch 0, a wrong pitch in the drill note's place SUBSTITUTE, a missed or an extra
+// note GAP each. SUBSTITUTE < 2 × GAP makes a wrong note cheaper than "missed + extra", and
+// SUBSTITUTE > GAP lets one gap buy back a run of matches after a skipped or added note.
+//
+// The dynamic programme runs in a band around the diagonal from (0, 0) to (drill, played),
+// wide enough for the length difference plus a margin, so a 100,000-note attempt needs
+// O(n · band) time and memory instead of O(n²).
+
+export interface AlignTarget { midi: number, beat: number }
+export interface AlignPlayed { midi: number, onMs: number }
+
+export type AlignOutcome = 'correct' | 'wrong' | 'missed'
+
+export interface Alignment {
+  /** Per target, in input order: the index of the played note matched to it, or null. */
+  match: (number | null)[]
+  outcome: AlignOutcome[]
+  /** Indices of played notes that answer no target, in onset order. */
+  extras: number[]
+  counts: { correct: number, wrong: number, extra: number, missed: number }
+}
+
+export interface AlignOptions {
+  /** Played notes whose onsets lie within this many ms of a group's first onset count as one chord. */
+  chordWindowMs?: number
+}
+
+/** Same window the inference uses for chords, so both modules see the same groups. */
+export const CHORD_WINDOW_MS = 30
+
+const SUBSTITUTE = 3
+const GAP = 2
+/** Extra band width beyond the length difference: room for local detours (a skipped or added run). */
+const BAND_MARGIN = 64
+/** Upper bound on DP cells (bytes of traceback), so junk input cannot exhaust memory. */
+const MAX_CELLS = 40_000_000
+const INF = 0x3fffffff
+
+const DIAGONAL = 0
+const UP = 1 // target missed
+const LEFT = 2 // played note extra
+
+function targetOrder(targets: readonly AlignTarget[]): number[] {
+  return targets.map((_, i) => i).sort((a, b) => targets[a]!.beat - targets[b]!.beat || targets[a]!.midi - targets[b]!.midi || a - b)
+}
+
+function playedOrder(played: readonly AlignPlayed[], windowMs: number): number[] {
+  const byOnset = played.map((_, i) => i).sort((a, b) => played[a]!.onMs - played[b]!.onMs || a - b)
+  const order: number[] = []
+  let start = 0
+  while (start < byOnset.length) {
+    const first = played[byOnset[start]!]!.onMs
+    let end = start + 1
+    while (end < byOnset.length && played[byOnset[end]!]!.onMs - first <= windowMs) end++
+    const group = byOnset.slice(start, end).sort((a, b) => played[a]!.midi - played[b]!.midi || a - b)
+    for (const index of group) order.push(index)
+    start = end
+  }
+  return order
+}
+
+export function alignNotes(targets: readonly AlignTarget[], played: readonly AlignPlayed[], options: AlignOptions = {}): Alignment {
+  const ti = targetOrder(targets)
+  const pi = playedOrder(played, options.chordWindowMs ?? CHORD_WINDOW_MS)
+  const n = ti.length
+  const m = pi.length
+  const tMidi = Int32Array.from(ti, i => targets[i]!.midi)
+  const pMidi = Int32Array.from(pi, i => played[i]!.midi)
+
+  const rows = n + 1
+  const width = Math.max(1, Math.min(Math.abs(n - m) + BAND_MARGIN, Math.floor(MAX_CELLS / rows / 2)))
+  const lo = new Int32Array(rows)
+  const hi = new Int32Array(rows)
+  const rowStart = new Int32Array(rows + 1)
+  for (let i = 0; i <= n; i++) {
+    const centre = n === 0 ? 0 : Math.round((i * m) / n)
+    lo[i] = i === 0 ? 0 : Math.max(0, centre - width)
+    hi[i] = i === n ? m : Math.min(m, centre + width)
+    rowStart[i + 1] = rowStart[i]! + hi[i]! - lo[i]! + 1
+  }
+  const trace = new Uint8Array(rowStart[rows]!)
+  let prev = new Int32Array(m + 2).fill(INF)
+  let cur = new Int32Array(m + 2).fill(INF)
+
+  for (let j = 0; j <= hi[0]!; j++) {
+    prev[j] = j * GAP
+    trace[j] = LEFT
+  }
+  for (let i = 1; i <= n; i++) {
+    // Cells of the previous row outside its band hold stale values from older rows.
+    for (let j = hi[i - 1]! + 1; j <= hi[i]!; j++) prev[j] = INF
+    if (lo[i - 1]! > 0) prev[lo[i - 1]! - 1] = INF
+    if (lo[i]! > 0) cur[lo[i]! - 1] = INF
+    const base = rowStart[i]! - lo[i]!
+    const midi = tMidi[i - 1]!
+    for (let j = lo[i]!; j <= hi[i]!; j++) {
+      let best = prev[j]! + GAP
+      let move = UP
+      if (j > 0) {
+        const diagonal = prev[j - 1]! + (pMidi[j - 1] === midi ? 0 : SUBSTITUTE)
+        if (diagonal <= best) {
+          best = diagonal
+          move = DIAGONAL
+        }
+        const left = cur[j - 1]! + GAP
+        if (left < best) {
+          best = left
+          move = LEFT
+        }
+      }
+      cur[j] = best
+      trace[base + j] = move
+    }
+    const swap = prev
+    prev = cur
+    cur = swap
+  }
+
+  const match: (number | null)[] = Array.from({ length: targets.length }, () => null)
+  const outcome: AlignOutcome[] = Array.from({ length: targets.length }, () => 'missed')
+  const extrasReversed: number[] = []
+  let i = n
+  let j = m
+  while (i > 0 || j > 0) {
+    const move = i === 0 ? LEFT : j < lo[i]! || j > hi[i]! ? UP : trace[rowStart[i]! - lo[i]! + j]!
+    if (move === DIAGONAL) {
+      const target = ti[i - 1]!
+      match[target] = pi[j - 1]!
+      outcome[target] = tMidi[i - 1] === pMidi[j - 1] ? 'correct' : 'wrong'
+      i--
+      j--
+    }
+    else if (move === UP) {
+      i--
+    }
+    else {
+      extrasReversed.push(pi[j - 1]!)
+      j--
+    }
+  }
+
+  const counts = { correct: 0, wrong: 0, extra: extrasReversed.length, missed: 0 }
+  for (const o of outcome) counts[o]++
+  return { match, outcome, extras: extrasReversed.reverse(), counts }
+}

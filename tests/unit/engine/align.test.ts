@@ -1,0 +1,71 @@
+import { describe, expect, it } from 'vitest'
+import fc from 'fast-check'
+import { alignNotes, type AlignPlayed, type AlignTarget } from '../../../shared/engine/align'
+
+const line = (midis: number[]): AlignTarget[] => midis.map((midi, beat) => ({ midi, beat }))
+const play = (midis: number[], stepMs = 300): AlignPlayed[] => midis.map((midi, i) => ({ midi, onMs: i * stepMs }))
+const SCALE = [60, 62, 64, 65, 67, 69, 71, 72]
+
+describe('alignNotes', () => {
+  it('matches a clean performance note for note', () => {
+    const a = alignNotes(line(SCALE), play(SCALE))
+    expect(a.counts).toEqual({ correct: 8, wrong: 0, extra: 0, missed: 0 })
+    expect(a.match).toEqual([0, 1, 2, 3, 4, 5, 6, 7])
+  })
+
+  it('counts a wrong note in place of a drill note', () => {
+    const a = alignNotes(line(SCALE), play([60, 62, 63, 65, 67, 69, 71, 72]))
+    expect(a.counts).toEqual({ correct: 7, wrong: 1, extra: 0, missed: 0 })
+    expect(a.outcome[2]).toBe('wrong')
+    expect(a.match[2]).toBe(2)
+  })
+
+  it('counts a missed note without shifting the rest', () => {
+    const a = alignNotes(line(SCALE), play([60, 62, 65, 67, 69, 71, 72]))
+    expect(a.counts).toEqual({ correct: 7, wrong: 0, extra: 0, missed: 1 })
+    expect(a.outcome[2]).toBe('missed')
+    expect(a.match[3]).toBe(2)
+  })
+
+  it('counts an extra note and names it', () => {
+    const a = alignNotes(line(SCALE), play([60, 62, 61, 64, 65, 67, 69, 71, 72]))
+    expect(a.counts).toEqual({ correct: 8, wrong: 0, extra: 1, missed: 0 })
+    expect(a.extras).toEqual([2])
+  })
+
+  it('lets the notes of a chord arrive in any order', () => {
+    const targets: AlignTarget[] = [{ midi: 60, beat: 0 }, { midi: 64, beat: 0 }, { midi: 67, beat: 0 }, { midi: 72, beat: 1 }]
+    const played: AlignPlayed[] = [{ midi: 67, onMs: 0 }, { midi: 60, onMs: 8 }, { midi: 64, onMs: 15 }, { midi: 72, onMs: 500 }]
+    const a = alignNotes(targets, played)
+    expect(a.counts.correct).toBe(4)
+    expect(a.match).toEqual([1, 2, 0, 3])
+  })
+
+  it('keeps order outside chords: a swapped pair is not two correct notes', () => {
+    const a = alignNotes(line([60, 62, 64]), play([60, 64, 62]))
+    expect(a.counts.correct).toBe(2)
+  })
+
+  it('finds the whole drill after a false start', () => {
+    const played = play([...SCALE.slice(0, 3), ...SCALE])
+    const a = alignNotes(line(SCALE), played)
+    expect(a.counts).toEqual({ correct: 8, wrong: 0, extra: 3, missed: 0 })
+  })
+
+  it('handles empty sides', () => {
+    expect(alignNotes([], play([60])).counts).toEqual({ correct: 0, wrong: 0, extra: 1, missed: 0 })
+    expect(alignNotes(line([60, 62]), []).counts).toEqual({ correct: 0, wrong: 0, extra: 0, missed: 2 })
+    expect(alignNotes([], []).counts).toEqual({ correct: 0, wrong: 0, extra: 0, missed: 0 })
+  })
+
+  it('accounts for every note on both sides', () => {
+    const midis = fc.array(fc.integer({ min: 55, max: 70 }), { maxLength: 80 })
+    fc.assert(fc.property(midis, midis, (t, p) => {
+      const a = alignNotes(line(t), play(p, 50))
+      expect(a.counts.correct + a.counts.wrong + a.counts.missed).toBe(t.length)
+      expect(a.counts.correct + a.counts.wrong + a.counts.extra).toBe(p.length)
+      const used = a.match.filter(x => x !== null)
+      expect(new Set([...used, ...a.extras]).size).toBe(p.length)
+    }))
+  })
+})
