@@ -37,5 +37,5 @@ export default defineNuxtConfig({
   },
   // Tests build into their own folder so they can run while `npm start` serves .output.
   nitro: process.env.EVENHAND_OUTPUT_DIR ? { output: { dir: process.env.EVENHAND_OUTPUT_DIR } } : {},
-  typescript: { strict: true },
+  typescript: { strict: true, tsConfig: { exclude: ['../.output-test', '../public'] } },
 })

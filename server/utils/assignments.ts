@@ -25,20 +25,45 @@ export interface AssignmentView {
   items: AssignmentItem[]
 }
 
+interface AssignmentDbRow {
+  id: number
+  drill_set_id: number
+  title: string
+  class_id: number | null
+  class_name: string | null
+  student_id: number | null
+  student_name: string | null
+  due_at: Date | null
+  note: string | null
+  created_at: Date
+}
+
+interface ItemDbRow {
+  drill_set_id: number
+  id: number
+  title: string
+  kind: string
+  hand: string
+  target_tempo_bpm: number | null
+  target_score: number | null
+}
+
+interface RecordDbRow { assignment_id: number, drill_id: number, n: number, best: number, latest: string }
+
 /** Assignments as the home pages show them, with their drills in order; `studentId` adds that student's record. */
 export async function describeAssignments(db: Knex, assignmentQuery: Knex.QueryBuilder, studentId?: number): Promise<AssignmentView[]> {
-  const rows = await assignmentQuery.clone()
+  const rows: AssignmentDbRow[] = await assignmentQuery.clone()
     .join('drill_sets as ds', 'ds.id', 'a.drill_set_id')
     .leftJoin('classes as c', 'c.id', 'a.class_id')
     .leftJoin('users as s', 's.id', 'a.student_id')
     .orderBy([{ column: 'a.due_at', order: 'asc' }, { column: 'a.id' }])
     .select('a.id', 'a.drill_set_id', 'ds.title', 'a.class_id', 'c.name as class_name', 'a.student_id', 's.name as student_name', 'a.due_at', 'a.note', 'a.created_at')
   if (!rows.length) return []
-  const items = await db('drill_set_items as dsi').join('drills as d', 'd.id', 'dsi.drill_id')
+  const items: ItemDbRow[] = await db('drill_set_items as dsi').join('drills as d', 'd.id', 'dsi.drill_id')
     .whereIn('dsi.drill_set_id', rows.map(r => r.drill_set_id))
     .orderBy(['dsi.drill_set_id', 'dsi.position'])
     .select('dsi.drill_set_id', 'd.id', 'd.title', 'd.kind', 'd.hand', 'dsi.target_tempo_bpm', 'dsi.target_score')
-  const records = studentId
+  const records: RecordDbRow[] = studentId
     ? await db('attempts').where('student_id', studentId).whereIn('assignment_id', rows.map(r => r.id))
         .groupBy('assignment_id', 'drill_id')
         .select('assignment_id', 'drill_id', db.raw('COUNT(*) AS n'), db.raw('MAX(score) AS best'),
@@ -52,8 +77,8 @@ export async function describeAssignments(db: Knex, assignmentQuery: Knex.QueryB
       drillSetId: Number(r.drill_set_id),
       drillSetTitle: r.title,
       target: r.class_id
-        ? { kind: 'class' as const, id: Number(r.class_id), name: r.class_name }
-        : { kind: 'student' as const, id: Number(r.student_id), name: r.student_name },
+        ? { kind: 'class' as const, id: Number(r.class_id), name: r.class_name ?? '' }
+        : { kind: 'student' as const, id: Number(r.student_id), name: r.student_name ?? '' },
       dueAt,
       overdue: dueAt !== null && Date.parse(dueAt) < now,
       note: r.note,

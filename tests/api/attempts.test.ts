@@ -1,0 +1,103 @@
+import { randomUUID } from 'node:crypto'
+import { Note } from 'tonal'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { DrillNote } from '../../shared/types/drill'
+import type { PlayedEvent } from '../../shared/types/attempt'
+import { Client, closeTestDb, testDb } from '../support/server'
+
+afterAll(closeTestDb)
+
+interface DrillReply { drill: { id: number, version: number, tempoBpm: number, notes: DrillNote[] }, targets: { assignmentId: number, targetTempoBpm: number | null }[] }
+interface AttemptReply { attempt: { id: string, score: number, studentId: number, result: { accuracy: { correct: number, missed: number } } } }
+
+/** An even, exact performance of a drill at a tempo. */
+function play(notes: DrillNote[], bpm: number): PlayedEvent[] {
+  const beatMs = 60_000 / bpm
+  return notes.flatMap(n => [
+    { note: Note.midi(n.pitch)!, on: true, velocity: 70, timeMs: n.beat * beatMs },
+    { note: Note.midi(n.pitch)!, on: false, timeMs: (n.beat + n.length * 0.95) * beatMs },
+  ]).sort((a, b) => a.timeMs - b.timeMs)
+}
+
+let noor: Client
+let drill: DrillReply
+beforeAll(async () => {
+  noor = await new Client().signIn('student@evenhand.test')
+  const teacher = await new Client().signIn('teacher@evenhand.test')
+  const list = await teacher.get<{ drills: { id: number, title: string }[] }>('/api/drills')
+  const id = list.body.drills.find(d => d.title === 'C major scale, right hand')!.id
+  drill = (await noor.get<DrillReply>(`/api/drills/${id}`)).body
+})
+
+function attemptBody(id = randomUUID()): Record<string, unknown> {
+  return {
+    id,
+    drillId: drill.drill.id,
+    drillVersion: drill.drill.version,
+    assignmentId: drill.targets[0]?.assignmentId ?? null,
+    startedAt: new Date().toISOString(),
+    tempoBpm: 72,
+    inputDevice: 'midi',
+    deviceName: 'Test keyboard',
+    events: play(drill.drill.notes, 72),
+  }
+}
+
+describe('POST /api/attempts', () => {
+  it('grades on the server, stores raw events, and stores one row for a re-sent id', async () => {
+    const body = attemptBody()
+    const first = await noor.post<AttemptReply>('/api/attempts', body)
+    expect(first.status).toBe(201)
+    expect(first.body.attempt.result.accuracy.correct).toBe(drill.drill.notes.length)
+    expect(first.body.attempt.score).toBeGreaterThan(70)
+
+    const again = await noor.post<AttemptReply>('/api/attempts', body)
+    expect(again.status).toBe(200)
+    expect(again.body.attempt.id).toBe(body.id)
+    const rows = await testDb()('attempts').where({ id: body.id })
+    expect(rows).toHaveLength(1)
+    const stored = typeof rows[0].events === 'string' ? JSON.parse(rows[0].events) : rows[0].events
+    expect(stored).toHaveLength((body.events as unknown[]).length)
+    expect(rows[0].score).toBe(first.body.attempt.score)
+  })
+
+  it('ignores any score the browser sends and recomputes it', async () => {
+    const body = { ...attemptBody(), score: 100, events: [] }
+    const res = await noor.post<AttemptReply>('/api/attempts', body)
+    expect(res.status).toBe(201)
+    expect(res.body.attempt.result.accuracy.missed).toBe(drill.drill.notes.length)
+    expect(res.body.attempt.score).toBeLessThan(50)
+  })
+
+  it.each([
+    ['a bad id', { id: 'nope' }, /^id:/],
+    ['a velocity above 127', { events: [{ note: 60, on: true, velocity: 300, timeMs: 0 }] }, /^events\.0\.velocity:/],
+    ['an unknown device', { inputDevice: 'theremin' }, /^inputDevice:/],
+    ['a missing drill version', { drillVersion: undefined }, /^drillVersion:/],
+  ])('rejects %s with 400 and the field name', async (_, change, message) => {
+    const res = await noor.post('/api/attempts', { ...attemptBody(), ...change })
+    expect(res.status).toBe(400)
+    expect(res.body.message).toMatch(message)
+  })
+
+  it('refuses another student reusing an attempt id, and hides the attempt from them', async () => {
+    const body = attemptBody()
+    expect((await noor.post('/api/attempts', body)).status).toBe(201)
+    const theo = await new Client().signIn('theo@evenhand.test')
+    expect((await theo.get(`/api/attempts/${body.id}`)).status).toBe(404)
+  })
+})
+
+describe('GET /api/attempts', () => {
+  it('lets the teacher list a student\'s attempts on a drill, and the student only their own', async () => {
+    const teacher = await new Client().signIn('teacher@evenhand.test')
+    const noorId = Number((await testDb()('users').where({ email: 'student@evenhand.test' }).first('id')).id)
+    const mine = await noor.get<{ attempts: { studentId: number }[] }>(`/api/attempts?drill=${drill.drill.id}`)
+    expect(mine.status).toBe(200)
+    expect(mine.body.attempts.length).toBeGreaterThan(0)
+    expect(mine.body.attempts.every(a => a.studentId === noorId)).toBe(true)
+    const theirs = await teacher.get<{ attempts: { studentId: number }[] }>(`/api/attempts?drill=${drill.drill.id}&student=${noorId}`)
+    expect(theirs.body.attempts.length).toBe(mine.body.attempts.length)
+    expect((await noor.get(`/api/attempts?student=${noorId + 1}`)).status).toBe(403)
+  })
+})

@@ -1,0 +1,41 @@
+// Debian's chromium driven by playwright-core, with the flags this closed network needs.
+import { mkdtemp, rm } from 'node:fs/promises'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { chromium } from 'playwright-core'
+import type { BrowserContext, Page } from 'playwright-core'
+import { baseUrl, DEMO_PASSWORD } from './server'
+
+export interface BrowserSession {
+  context: BrowserContext
+  page: Page
+  close: () => Promise<void>
+}
+
+export async function openBrowser(options: { initScript?: string } = {}): Promise<BrowserSession> {
+  const profile = await mkdtemp(join(tmpdir(), 'evenhand-chromium-'))
+  const context = await chromium.launchPersistentContext(profile, {
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    baseURL: baseUrl(),
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
+      '--disable-component-update', '--disable-sync', '--autoplay-policy=no-user-gesture-required'],
+  })
+  if (options.initScript) await context.addInitScript(options.initScript)
+  const page = context.pages()[0] ?? await context.newPage()
+  return {
+    context,
+    page,
+    close: async () => {
+      await context.close()
+      await rm(profile, { recursive: true, force: true })
+    },
+  }
+}
+
+export async function signInAs(page: Page, email: string, password = DEMO_PASSWORD): Promise<void> {
+  await page.goto('/login')
+  await page.getByLabel('E-mail').fill(email)
+  await page.getByLabel('Password').fill(password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+}

@@ -1,0 +1,65 @@
+// What the integration and browser tests share: the test server that scripts/test.sh started,
+// a cookie-keeping client, and a connection to the same test database.
+import knex from 'knex'
+import type { Knex } from 'knex'
+import { connectionFromEnv, knexConfig } from '../../knexfile'
+
+export const DEMO_PASSWORD = 'evenhand-demo'
+
+export function baseUrl(): string {
+  const url = process.env.EVENHAND_TEST_URL
+  if (!url) throw new Error('EVENHAND_TEST_URL is not set: run the integration tests through `npm test`')
+  return url
+}
+
+export interface Reply<T = unknown> {
+  status: number
+  body: T
+  headers: Headers
+}
+
+/** A tiny HTTP client that keeps the session cookie between calls, like a browser would. */
+export class Client {
+  private cookie = ''
+
+  async request<T = Record<string, unknown>>(method: string, path: string, body?: unknown, raw?: string): Promise<Reply<T>> {
+    const headers: Record<string, string> = { accept: 'application/json' }
+    if (this.cookie) headers.cookie = this.cookie
+    if (body !== undefined || raw !== undefined) headers['content-type'] = 'application/json'
+    const res = await fetch(baseUrl() + path, { method, headers, body: raw ?? (body === undefined ? undefined : JSON.stringify(body)) })
+    const setCookie = res.headers.getSetCookie().map(c => c.split(';')[0]!).filter(Boolean)
+    if (setCookie.length) this.cookie = setCookie.join('; ')
+    const text = await res.text()
+    let parsed: unknown = text
+    try {
+      parsed = JSON.parse(text)
+    }
+    catch { /* not JSON: keep the text */ }
+    return { status: res.status, body: parsed as T, headers: res.headers }
+  }
+
+  get<T = Record<string, unknown>>(path: string): Promise<Reply<T>> {
+    return this.request<T>('GET', path)
+  }
+
+  post<T = Record<string, unknown>>(path: string, body?: unknown): Promise<Reply<T>> {
+    return this.request<T>('POST', path, body)
+  }
+
+  async signIn(email: string, password = DEMO_PASSWORD): Promise<this> {
+    const res = await this.post('/api/auth/login', { email, password })
+    if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status}`)
+    return this
+  }
+}
+
+let db: Knex | undefined
+export function testDb(): Knex {
+  db ??= knex(knexConfig(connectionFromEnv(), { min: 0, max: 2 }))
+  return db
+}
+
+export async function closeTestDb(): Promise<void> {
+  await db?.destroy()
+  db = undefined
+}
