@@ -1,0 +1,208 @@
+import type { Input, Listener, MessageEvent as MidiMessageEvent } from 'webmidi'
+import { createEventHook, createSharedComposable, tryOnScopeDispose, useLocalStorage } from '@vueuse/core'
+import type { EventHookOn } from '@vueuse/core'
+import { z } from 'zod'
+import type { LiveNoteEvent, LivePedalEvent } from '#shared/types/live'
+
+export type MidiStatus = 'idle' | 'enabling' | 'unsupported' | 'denied' | 'error' | 'no-devices' | 'ready'
+
+export interface MidiInputInfo {
+  id: string
+  name: string
+  manufacturer: string
+  state: 'connected' | 'disconnected'
+}
+
+const RememberedInput = z.object({ id: z.string().min(1), name: z.string() }).nullable()
+type RememberedInput = z.infer<typeof RememberedInput>
+
+const STORAGE_KEY = 'evenhand.midi-input'
+const NOTE_OFF = 0x80
+const NOTE_ON = 0x90
+const CONTROL_CHANGE = 0xB0
+const SUSTAIN_PEDAL = 64
+
+/**
+ * Turns one raw MIDI channel message into a note or pedal event, or null for anything else.
+ * We read the bytes ourselves rather than webmidi's parsed events: that gives the 0–127 values
+ * unchanged, ignores webmidi's octave offsets, and needs one listener per input, not sixteen.
+ */
+export function parseMidiMessage(data: ArrayLike<number>, timeStampMs: number): LiveNoteEvent | LivePedalEvent | null {
+  const command = (data[0] ?? 0) & 0xF0
+  const first = data[1] ?? 0
+  const second = data[2] ?? 0
+  if (command === NOTE_ON || command === NOTE_OFF) {
+    // Running-status keyboards send a note-on with velocity 0 instead of a note-off.
+    const on = command === NOTE_ON && second > 0
+    return { note: first, on, velocity: on || command === NOTE_OFF ? second : 0, timeStampMs, source: 'midi' }
+  }
+  if (command === CONTROL_CHANGE && first === SUSTAIN_PEDAL) {
+    // The MIDI 1.0 convention for switch controllers: 0–63 is up, 64–127 is down.
+    return { down: second >= 64, timeStampMs, source: 'midi' }
+  }
+  return null
+}
+
+// webmidi is one object per page; a new enable() must wait until the last disable() has
+// finished, or it would find the old MIDIAccess still in place and skip asking for a new one.
+let released: Promise<unknown> = Promise.resolve()
+
+function isPermissionError(error: unknown): boolean {
+  const name = (error as { name?: unknown } | null)?.name
+  return name === 'SecurityError' || name === 'NotAllowedError'
+}
+
+function toInfo(input: Input): MidiInputInfo {
+  return {
+    id: input.id,
+    name: input.name || 'Unnamed MIDI input',
+    manufacturer: input.manufacturer ?? '',
+    state: input.state === 'connected' ? 'connected' : 'disconnected',
+  }
+}
+
+function describe(status: MidiStatus, remembered: RememberedInput, listening: MidiInputInfo | null, failure: string): string {
+  switch (status) {
+    case 'idle': return 'MIDI is not switched on yet.'
+    case 'enabling': return 'Asking the browser for your MIDI devices…'
+    case 'unsupported': return 'This browser has no Web MIDI, so a MIDI keyboard cannot be used here. Try a Chromium-based browser or Firefox, or play on the computer keys or the on-screen keys.'
+    case 'denied': return 'MIDI access was refused. Allow MIDI devices for this site in the browser’s site settings and try again, or play on the computer keys or the on-screen keys.'
+    case 'error': return `MIDI could not be started: ${failure}`
+    case 'no-devices': return remembered
+      ? `“${remembered.name}” is not connected. Plug it in and switch it on; it will be picked up by itself.`
+      : 'No MIDI keyboard found. Plug one in and switch it on; it will be picked up by itself.'
+    case 'ready': return remembered && listening && remembered.id !== listening.id
+      ? `Listening to “${listening.name}” while “${remembered.name}” is unplugged.`
+      : `Listening to “${listening?.name ?? ''}”.`
+  }
+}
+
+export interface MidiInput {
+  status: Readonly<Ref<MidiStatus>>
+  /** A sentence for the student that says what the status means and what to do. */
+  message: ComputedRef<string>
+  /** Every input the browser reports, plugged in or not. */
+  inputs: Readonly<Ref<readonly MidiInputInfo[]>>
+  /** The input being listened to now (another one while the remembered device is unplugged). */
+  selected: ComputedRef<MidiInputInfo | null>
+  /** The input the student chose, kept across visits; null until they choose. */
+  rememberedId: ComputedRef<string | null>
+  enable: () => Promise<MidiStatus>
+  select: (id: string) => void
+  onNote: EventHookOn<LiveNoteEvent>
+  onPedal: EventHookOn<LivePedalEvent>
+}
+
+function createMidiInput(): MidiInput {
+  const remembered = useLocalStorage<RememberedInput>(STORAGE_KEY, null, {
+    serializer: validatedSerializer(RememberedInput, () => null),
+    // Written at once: a choice made just before the tab closes must still be there next time.
+    flush: 'sync',
+  })
+  const status = ref<MidiStatus>('idle')
+  const failure = ref('')
+  const inputs = shallowRef<MidiInputInfo[]>([])
+  const listeningId = ref<string | null>(null)
+  const noteHook = createEventHook<LiveNoteEvent>()
+  const pedalHook = createEventHook<LivePedalEvent>()
+
+  let midi: typeof import('webmidi').WebMidi | null = null
+  let attached: { input: Input, listeners: Listener[] } | null = null
+
+  const listening = computed<MidiInputInfo | null>(() => inputs.value.find(i => i.id === listeningId.value) ?? null)
+  const message = computed(() => describe(status.value, remembered.value, listening.value, failure.value))
+
+  function onMessage(e: MidiMessageEvent): void {
+    const event = parseMidiMessage(e.message.data, e.timestamp)
+    if (!event) return
+    if ('note' in event) void noteHook.trigger(event)
+    else void pedalHook.trigger(event)
+  }
+
+  function attach(input: Input | null): void {
+    if (attached?.input === input) return
+    attached?.listeners.forEach(l => l.remove())
+    attached = null
+    if (input) attached = { input, listeners: [input.addListener('midimessage', onMessage)].flat() }
+    listeningId.value = input?.id ?? null
+  }
+
+  /** The remembered device when it is plugged in, else the first one that is. */
+  function pickInput(connected: Input[]): Input | null {
+    const wanted = remembered.value
+    if (wanted) {
+      // Some systems give a device a new id when it goes into another USB port; the name stays.
+      const match = connected.find(i => i.id === wanted.id) ?? connected.find(i => i.name === wanted.name)
+      if (match) return match
+    }
+    return connected[0] ?? null
+  }
+
+  function refresh(): void {
+    if (!midi) return
+    const all = midi.inputs
+    inputs.value = all.map(toInfo)
+    attach(pickInput(all.filter(i => i.state === 'connected')))
+    status.value = attached ? 'ready' : 'no-devices'
+  }
+
+  /** Asks the browser for MIDI access (it may prompt) and starts listening. Client only. */
+  async function enable(): Promise<MidiStatus> {
+    if (import.meta.server || midi || status.value === 'enabling') return status.value
+    if (typeof navigator === 'undefined' || typeof navigator.requestMIDIAccess !== 'function') {
+      status.value = 'unsupported'
+      return status.value
+    }
+    status.value = 'enabling'
+    const { WebMidi } = await import('webmidi')
+    await released
+    try {
+      await WebMidi.enable()
+    }
+    catch (error) {
+      failure.value = error instanceof Error ? error.message : String(error)
+      status.value = isPermissionError(error) ? 'denied' : 'error'
+      return status.value
+    }
+    midi = WebMidi
+    WebMidi.addListener('connected', refresh)
+    WebMidi.addListener('disconnected', refresh)
+    refresh()
+    return status.value
+  }
+
+  /** Listens to the input with this id from now on, and remembers it for the next visit. */
+  function select(id: string): void {
+    const input = midi?.inputs.find(i => i.id === id && i.state === 'connected')
+    if (!input) throw new Error(`No connected MIDI input has the id “${id}”.`)
+    remembered.value = { id: input.id, name: input.name }
+    refresh()
+  }
+
+  tryOnScopeDispose(() => {
+    attach(null)
+    if (!midi) return
+    midi.removeListener('connected', refresh)
+    midi.removeListener('disconnected', refresh)
+    released = midi.disable()
+    midi = null
+  })
+
+  return {
+    status: readonly(status),
+    message,
+    inputs: readonly(inputs),
+    selected: listening,
+    rememberedId: computed(() => remembered.value?.id ?? null),
+    enable,
+    select,
+    onNote: noteHook.on,
+    onPedal: pedalHook.on,
+  }
+}
+
+/**
+ * MIDI keyboards through webmidi, shared by every component that asks for it: one MIDIAccess,
+ * one listener per input, released when the last user unmounts.
+ */
+export const useMidiInput: () => MidiInput = createSharedComposable(createMidiInput)

@@ -1,0 +1,169 @@
+import { afterEach, beforeEach, describe, expect, it } from 'vitest'
+import type { EffectScope } from 'vue'
+import type { LiveNoteEvent, LivePedalEvent } from '#shared/types/live'
+import { parseMidiMessage, useMidiInput } from '~/composables/useMidiInput'
+import type { MidiInput } from '~/composables/useMidiInput'
+import { FakeMidiAccess, FakeMidiInput, installMidi } from './fakeMidi'
+
+let scope: EffectScope | null = null
+let restore: (() => void) | null = null
+
+function start(access: (() => Promise<FakeMidiAccess>) | undefined): MidiInput {
+  restore = installMidi(access)
+  scope = effectScope()
+  return scope.run(() => useMidiInput())!
+}
+
+function record(midi: MidiInput): { notes: LiveNoteEvent[], pedal: LivePedalEvent[] } {
+  const notes: LiveNoteEvent[] = []
+  const pedal: LivePedalEvent[] = []
+  midi.onNote(e => notes.push(e))
+  midi.onPedal(e => pedal.push(e))
+  return { notes, pedal }
+}
+
+beforeEach(() => localStorage.clear())
+afterEach(() => {
+  scope?.stop()
+  restore?.()
+  scope = null
+  restore = null
+})
+
+describe('parseMidiMessage', () => {
+  it.each([
+    ['note-on', [0x90, 60, 100], { note: 60, on: true, velocity: 100 }],
+    ['note-on on channel 5', [0x94, 61, 1], { note: 61, on: true, velocity: 1 }],
+    ['note-on with velocity 0 as a release', [0x90, 60, 0], { note: 60, on: false, velocity: 0 }],
+    ['note-off with its release velocity', [0x80, 60, 40], { note: 60, on: false, velocity: 40 }],
+    ['sustain pedal at 64 as down', [0xB0, 64, 64], { down: true }],
+    ['sustain pedal at 63 as up', [0xB0, 64, 63], { down: false }],
+  ])('reads a %s', (_, bytes, expected) => {
+    expect(parseMidiMessage(bytes, 12.5)).toEqual({ ...expected, timeStampMs: 12.5, source: 'midi' })
+  })
+
+  it.each([
+    ['another controller', [0xB0, 7, 100]],
+    ['a program change', [0xC0, 3]],
+    ['aftertouch', [0xD0, 50]],
+  ])('ignores %s', (_, bytes) => {
+    expect(parseMidiMessage(bytes, 0)).toBeNull()
+  })
+})
+
+describe('useMidiInput', () => {
+  it('reports notes and pedal with the timestamps of the MIDI messages', async () => {
+    const keys = new FakeMidiInput('in-1', 'Stage Piano')
+    const midi = start(async () => new FakeMidiAccess([keys]))
+    const { notes, pedal } = record(midi)
+
+    expect(await midi.enable()).toBe('ready')
+    expect(midi.inputs.value).toEqual([{ id: 'in-1', name: 'Stage Piano', manufacturer: 'Evenhand Test Works', state: 'connected' }])
+    expect(midi.selected.value?.id).toBe('in-1')
+    expect(midi.message.value).toBe('Listening to “Stage Piano”.')
+
+    keys.send([0x90, 60, 90], 1000.25)
+    keys.send([0xB0, 64, 127], 1010.5)
+    keys.send([0x90, 60, 0], 1250.75)
+    keys.send([0xB0, 64, 0], 1300)
+
+    expect(notes).toEqual([
+      { note: 60, on: true, velocity: 90, timeStampMs: 1000.25, source: 'midi' },
+      { note: 60, on: false, velocity: 0, timeStampMs: 1250.75, source: 'midi' },
+    ])
+    expect(pedal).toEqual([
+      { down: true, timeStampMs: 1010.5, source: 'midi' },
+      { down: false, timeStampMs: 1300, source: 'midi' },
+    ])
+  })
+
+  it('falls back while the chosen device is unplugged and goes back to it when it returns', async () => {
+    const first = new FakeMidiInput('in-a', 'Practice Keys')
+    const chosen = new FakeMidiInput('in-b', 'Grand Controller')
+    const access = new FakeMidiAccess([first, chosen])
+    const midi = start(async () => access)
+    const { notes } = record(midi)
+    await midi.enable()
+    midi.select('in-b')
+    expect(midi.selected.value?.id).toBe('in-b')
+
+    access.unplug(chosen)
+    await nextTick()
+    expect(midi.status.value).toBe('ready')
+    expect(midi.selected.value?.id).toBe('in-a')
+    expect(midi.rememberedId.value).toBe('in-b')
+    expect(midi.message.value).toContain('“Grand Controller” is unplugged')
+
+    access.plugIn(chosen)
+    await nextTick()
+    expect(midi.selected.value?.id).toBe('in-b')
+
+    first.send([0x90, 50, 70], 1)
+    chosen.send([0x90, 52, 80], 2)
+    expect(notes.map(n => n.note)).toEqual([52])
+  })
+
+  it('says no device is connected after the only one is unplugged, and recovers on re-plug', async () => {
+    const keys = new FakeMidiInput('in-1', 'Stage Piano')
+    const access = new FakeMidiAccess([keys])
+    const midi = start(async () => access)
+    const { notes } = record(midi)
+    await midi.enable()
+    midi.select('in-1')
+
+    access.unplug(keys)
+    await nextTick()
+    expect(midi.status.value).toBe('no-devices')
+    expect(midi.selected.value).toBeNull()
+    expect(midi.message.value).toContain('“Stage Piano” is not connected')
+
+    access.plugIn(keys)
+    await nextTick()
+    expect(midi.status.value).toBe('ready')
+    keys.send([0x90, 64, 64], 5)
+    expect(notes).toHaveLength(1)
+  })
+
+  it('re-selects the remembered device on the next visit', async () => {
+    const devices = (): FakeMidiInput[] => [new FakeMidiInput('in-a', 'Practice Keys'), new FakeMidiInput('in-b', 'Grand Controller')]
+    const visit = start(async () => new FakeMidiAccess(devices()))
+    await visit.enable()
+    visit.select('in-b')
+    scope!.stop()
+    restore!()
+
+    const next = start(async () => new FakeMidiAccess(devices()))
+    await next.enable()
+    expect(next.selected.value?.id).toBe('in-b')
+  })
+
+  it('refuses to select a device that is not connected', async () => {
+    const midi = start(async () => new FakeMidiAccess([new FakeMidiInput('in-1', 'Stage Piano')]))
+    await midi.enable()
+    expect(() => midi.select('in-9')).toThrow('No connected MIDI input has the id “in-9”.')
+  })
+
+  it('reports no devices when none is plugged in', async () => {
+    const midi = start(async () => new FakeMidiAccess([]))
+    expect(await midi.enable()).toBe('no-devices')
+    expect(midi.message.value).toContain('No MIDI keyboard found')
+  })
+
+  it('reports a browser without Web MIDI as unsupported', async () => {
+    const midi = start(undefined)
+    expect(await midi.enable()).toBe('unsupported')
+    expect(midi.message.value).toContain('no Web MIDI')
+  })
+
+  it('reports a refused permission as denied', async () => {
+    const midi = start(() => Promise.reject(new DOMException('Permission denied', 'SecurityError')))
+    expect(await midi.enable()).toBe('denied')
+    expect(midi.message.value).toContain('MIDI access was refused')
+  })
+
+  it('reports other failures with their reason', async () => {
+    const midi = start(() => Promise.reject(new Error('MIDI service crashed')))
+    expect(await midi.enable()).toBe('error')
+    expect(midi.message.value).toBe('MIDI could not be started: MIDI service crashed')
+  })
+})
