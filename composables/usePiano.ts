@@ -1,0 +1,78 @@
+// The sampled piano for live playing.
+//   const piano = usePiano()
+//   piano.noteOn(60, 90); piano.noteOff(60); piano.releaseAll()
+//   piano.loaded  – true once every sample is decoded (notes before that are silently dropped)
+//   piano.enabled – sound on/off, shared by every caller (the settings page toggles it)
+// Samples come from public/samples/ (scripts/render-samples.sh: every third key A0–C8).
+import type { Sampler } from 'tone'
+import { Midi } from 'tonal'
+
+const SAMPLE_LOW = 21
+const SAMPLE_HIGH = 108
+const SAMPLE_STEP = 3
+/** A piano's dampers stop a string in a few tenths of a second, not instantly. */
+const RELEASE_S = 0.4
+
+let sampler: Sampler | null = null
+let loading: Promise<void> | null = null
+
+/** tone's sampler keys are note names such as `D#1`; our files spell the sharp `s`. */
+function sampleUrls(): Record<string, string> {
+  const urls: Record<string, string> = {}
+  for (let midi = SAMPLE_LOW; midi <= SAMPLE_HIGH; midi += SAMPLE_STEP) {
+    const name = noteName(midi)
+    urls[name] = `${name.replace('#', 's')}.ogg`
+  }
+  return urls
+}
+
+export function usePiano() {
+  const enabled = useState('piano-enabled', () => true)
+  const loaded = useState('piano-loaded', () => false)
+  const baseUrl = `${useRuntimeConfig().app.baseURL}samples/`
+
+  function load(): Promise<void> {
+    loading ??= loadTone().then(Tone => new Promise<void>((resolve, reject) => {
+      sampler = new Tone.Sampler({
+        urls: sampleUrls(),
+        baseUrl,
+        release: RELEASE_S,
+        onload: () => {
+          loaded.value = true
+          resolve()
+        },
+        onerror: reject,
+      }).toDestination()
+    }))
+    return loading
+  }
+
+  function noteOn(midi: number, velocity = 80): void {
+    // A note that arrives before the samples are ready is dropped: sounding it late would be worse.
+    if (!enabled.value || !loaded.value || !sampler || !audioRunning()) return
+    sampler.triggerAttack(noteName(midi), undefined, Math.min(Math.max(velocity, 1), 127) / 127)
+  }
+
+  function noteOff(midi: number): void {
+    if (loaded.value && sampler) sampler.triggerRelease(noteName(midi))
+  }
+
+  function releaseAll(): void {
+    if (loaded.value && sampler) sampler.releaseAll()
+  }
+
+  watch(enabled, (on) => {
+    if (!on) releaseAll()
+  })
+
+  onMounted(() => {
+    load().catch((error: unknown) => console.error('Piano samples failed to load', error))
+  })
+
+  return { enabled, loaded: readonly(loaded), noteOn, noteOff, releaseAll, load }
+}
+
+/** tone reads a bare number as a frequency in Hz, so notes go in by name (`C#4`). */
+function noteName(midi: number): string {
+  return Midi.midiToNoteName(midi, { sharps: true })
+}

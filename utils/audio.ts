@@ -1,0 +1,66 @@
+// One low-latency audio context for the piano and the metronome, loaded on the client only.
+// tone is imported dynamically so that server rendering never touches Web Audio.
+import type * as ToneModule from 'tone'
+
+export type Tone = typeof ToneModule
+
+let loading: Promise<Tone> | null = null
+let rawContext: AudioContext | null = null
+
+/**
+ * Loads tone once and gives it our own native AudioContext. We create the native context
+ * ourselves (rather than letting tone wrap one) because only the native object offers
+ * `getOutputTimestamp()`, which `audioTimeToPerformanceMs` needs. `lookAhead: 0` makes
+ * `Tone.now()` the current audio time, so a live note is not delayed by tone's default 100 ms.
+ */
+export function loadTone(): Promise<Tone> {
+  if (!import.meta.client) return Promise.reject(new Error('Audio is only available in the browser'))
+  loading ??= import('tone').then((Tone) => {
+    rawContext = new AudioContext({ latencyHint: 'interactive' })
+    Tone.setContext(new Tone.Context({ context: rawContext, lookAhead: 0 }))
+    resumeOnFirstGesture(Tone)
+    return Tone
+  })
+  return loading
+}
+
+/** Browsers keep audio suspended until the user touches the page; MIDI notes do not count. */
+function resumeOnFirstGesture(Tone: Tone): void {
+  const events = ['pointerdown', 'keydown', 'touchend'] as const
+  const resume = (): void => {
+    void Tone.start().then(() => {
+      if (rawContext?.state === 'running') events.forEach(e => window.removeEventListener(e, resume, true))
+    })
+  }
+  events.forEach(e => window.addEventListener(e, resume, true))
+}
+
+/** Whether audio is allowed to sound yet (false until the first user gesture). */
+export function audioRunning(): boolean {
+  return rawContext?.state === 'running'
+}
+
+/** The current audio-clock time in seconds (the clock that sounds are scheduled on). */
+export function audioNow(): number {
+  return rawContext?.currentTime ?? 0
+}
+
+/**
+ * The `performance.now()` time (ms) at which a sound scheduled at audio time `t` (s) reaches
+ * the speakers. The two clocks run from different origins and drift apart slowly, and the
+ * output device adds its own latency, so we re-read the pairing on every call:
+ * `getOutputTimestamp()` says that the sample rendered at `contextTime` is being heard at
+ * `performanceTime`; a sound at `t` is heard `(t - contextTime)` seconds after that.
+ * Where the browser lacks it (or the context is not yet running and reports zeros), we pair
+ * `currentTime` with `performance.now()` and add the reported base and output latencies.
+ */
+export function audioTimeToPerformanceMs(t: number): number {
+  const ctx = rawContext
+  if (!ctx) return performance.now()
+  const stamp = typeof ctx.getOutputTimestamp === 'function' ? ctx.getOutputTimestamp() : undefined
+  if (stamp?.contextTime && stamp.performanceTime) {
+    return stamp.performanceTime + (t - stamp.contextTime) * 1000
+  }
+  const latency = (ctx.baseLatency ?? 0) + (ctx.outputLatency ?? 0)
+  return performance.now() + (t - ctx.currentTime + latency) * 1000
+}
