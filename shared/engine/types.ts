@@ -1,9 +1,9 @@
 // The engine's public shapes. The browser, the server and the command line all read these,
 // so change them only together with every caller.
-import type { Finger, Hand, HandSize, DrillMusic } from '../types/drill'
+import type { Finger, Hand, HandSize, DrillMusic, DrillNote } from '../types/drill'
 import type { PlayedEvent } from '../types/attempt'
 
-export type { Finger, Hand, HandSize, DrillMusic, PlayedEvent }
+export type { Finger, Hand, HandSize, DrillMusic, DrillNote, PlayedEvent }
 
 /** A line to finger: MIDI numbers, a chord as an array of MIDI numbers. */
 export type LineItem = number | number[]
@@ -42,7 +42,7 @@ export interface GradeResult {
   timing: {
     /** SD of onset deviations from a straight line fitted to onsets against beats, in ms. */
     sdMs: number | null
-    /** sdMs as a percentage of the fitted inter-onset interval of one beat... per drill note step. */
+    /** sdMs as a percentage of the fitted interval of the drill's typical step (ms per beat × median beat gap). */
     cvPercent: number | null
     /** Mean absolute change between consecutive inter-onset intervals, as % of the mean interval. */
     ioiVariationPercent: number | null
@@ -64,13 +64,23 @@ export interface GradeResult {
     played: number
     /** 0-based drill-note indices where a new hand position begins in the performance. */
     at: number[]
+    /** 0-based drill-note indices where the planned fingering begins a new position (open fingers filled by the suggestion). */
     plannedAt: number[]
   }
   tempo: { targetBpm: number, playedBpm: number | null }
   /** One entry per drill note; a missed note's finger is null. */
   inferredFingers: { finger: Finger | null, confidence: number }[]
-  /** Per drill note: what happened and which event (index into the note-on events) matched it. */
+  /** Per drill note: what happened and which note-on (index into the attempt's `events`) matched it. */
   notes: { outcome: NoteOutcome, eventIndex: number | null, playedNote: number | null }[]
-  /** Note-on event indices that matched no drill note. */
+  /** Indices into `events` of the note-ons that matched no drill note, in onset order. */
   extras: number[]
+}
+
+/** A drill read from a Standard MIDI File or MusicXML, before the teacher titles and saves it. */
+export interface ImportedDrill extends DrillMusic {
+  /** Such as `Eb major` or `d minor`; null where the file names no key. */
+  key: string | null
+  /** Such as `3/4`; null where the file names no metre. */
+  meter: string | null
+  title: string | null
 }
