@@ -35,7 +35,8 @@ export default defineNuxtConfig({
       appName: 'Evenhand',
     },
   },
-  // Tests build into their own folder so they can run while `npm start` serves .output.
+  // Tests build into folders of their own so they can run while `npm start` builds or serves .output.
+  ...(process.env.EVENHAND_BUILD_DIR ? { buildDir: process.env.EVENHAND_BUILD_DIR } : {}),
   nitro: process.env.EVENHAND_OUTPUT_DIR ? { output: { dir: process.env.EVENHAND_OUTPUT_DIR } } : {},
   typescript: { strict: true, tsConfig: { exclude: ['../.output-test', '../public'] } },
 })

@@ -38,7 +38,7 @@ export NUXT_DB_HOST=127.0.0.1 NUXT_DB_PORT="$DB_TEST_PORT" NUXT_DB_USER=evenhand
 node_modules/.bin/tsx scripts/migrate.ts
 node_modules/.bin/tsx scripts/seed.ts
 
-ensure_build "$ROOT/.output-test"
+ensure_build "$ROOT/.output-test" "$DATA/nuxt-test-build"
 export NUXT_SESSION_PASSWORD="evenhand-test-session-password-0123456789"
 HOST=127.0.0.1 PORT="$TEST_PORT" NITRO_HOST=127.0.0.1 NITRO_PORT="$TEST_PORT" node .output-test/server/index.mjs >"$DATA/test-server.log" 2>&1 &
 SERVER_PID=$!

@@ -47,13 +47,13 @@ ensure_session_password() {
   export NUXT_SESSION_PASSWORD
 }
 
-# Build into $1 unless the sources are unchanged since the last build there.
+# ensure_build OUT [BUILD_DIR]: build into OUT unless the sources are unchanged since the last build there.
 ensure_build() {
-  local out="$1" stamp="$1/.evenhand-source-hash" want
+  local out="$1" build_dir="${2:-}" stamp="$1/.evenhand-source-hash" want
   want="$(cd "$ROOT" && git ls-files -co --exclude-standard -- app.vue pages components composables stores server shared layouts middleware plugins assets utils public nuxt.config.ts tailwind.config.ts package-lock.json 2>/dev/null | sort | xargs -d '\n' sha256sum 2>/dev/null | sha256sum | cut -d' ' -f1)"
   if [ ! -f "$out/server/index.mjs" ] || [ ! -f "$stamp" ] || [ "$(cat "$stamp")" != "$want" ]; then
     log "building the app into ${out#"$ROOT"/}"
-    (cd "$ROOT" && EVENHAND_OUTPUT_DIR="$out" node_modules/.bin/nuxi build >"$DATA/build.log" 2>&1) \
+    (cd "$ROOT" && EVENHAND_OUTPUT_DIR="$out" EVENHAND_BUILD_DIR="$build_dir" node_modules/.bin/nuxi build >"$DATA/build.log" 2>&1) \
       || { tail -40 "$DATA/build.log" >&2; die "build failed (full log: .data/build.log)"; }
     echo "$want" > "$stamp"
   fi
