@@ -96,8 +96,11 @@ export interface MidiInput {
 function createMidiInput(): MidiInput {
   const remembered = useLocalStorage<RememberedInput>(STORAGE_KEY, null, {
     serializer: validatedSerializer(RememberedInput, () => null),
-    // Written at once: a choice made just before the tab closes must still be there next time.
+    // Written at once, so a choice is kept even if the page goes right after. vueuse pauses its
+    // writer until the next tick after each write when it also listens to storage events, which
+    // would drop a second write in the same tick; another tab's choice matters only on reload.
     flush: 'sync',
+    listenToStorageChanges: false,
   })
   const status = ref<MidiStatus>('idle')
   const failure = ref('')
