@@ -1,0 +1,395 @@
+// The cost of a fingering: Parncutt et al. 1997 rules plus a few rules of the trade, in right-hand space.
+import { isBlackKey } from './keys'
+import { MAX_COMF, MAX_PRAC, MAX_REL, MIN_COMF, MIN_PRAC, MIN_REL, pairSpan, spanTable, type SpanRow } from './spans'
+import { itemPitchesLowToHigh, toRightHandSpace } from './touches'
+import type { Finger, Hand, HandSize, LineItem } from './types'
+
+/** One finger on one key, the key in right-hand space (see touches.ts). */
+export interface Touch { f: Finger, k: number }
+
+export type Rule =
+  | 'stretch' | 'smallSpan' | 'largeSpan' | 'positionChangeCount' | 'positionChangeSize' | 'weakFinger'
+  | 'threeFourFive' | 'threeToFour' | 'fourOnBlack' | 'thumbOnBlack' | 'fiveOnBlack' | 'thumbPassing'
+  | 'sameFinger' | 'beyondReach' | 'crossing' | 'fourFiveAlternation' | 'repeatFingerChange' | 'chordShift'
+
+export type RuleWeights = Readonly<Record<Rule, number>>
+
+type Add = (rule: Rule, points: number) => void
+
+const PAPER_RULE_WEIGHT = 1
+
+/**
+ * Weights for suggesting a legato fingering. The paper's rules count 1 each (Parncutt et al. 1997
+ * add their points unweighted). A move that no finger pair can reach legato, or the same finger on
+ * two different keys, is not a fingering for a legato line at all (the paper only scores fingerings
+ * within the practical spans; common practice for the same finger): they cost so much that the
+ * search takes them only when nothing else exists. Two weights were tuned against the printed
+ * scale tables, as noted beside them.
+ */
+export const LEGATO_WEIGHTS: RuleWeights = {
+  stretch: PAPER_RULE_WEIGHT,
+  smallSpan: PAPER_RULE_WEIGHT,
+  largeSpan: PAPER_RULE_WEIGHT,
+  positionChangeCount: PAPER_RULE_WEIGHT,
+  positionChangeSize: PAPER_RULE_WEIGHT,
+  weakFinger: PAPER_RULE_WEIGHT,
+  threeFourFive: PAPER_RULE_WEIGHT,
+  threeToFour: PAPER_RULE_WEIGHT,
+  fourOnBlack: PAPER_RULE_WEIGHT,
+  // Common practice keeps the thumb off black keys in scales (the printed flat-key fingerings exist
+  // for that); at the paper's weight the model still puts it there, so this rule counts three times.
+  thumbOnBlack: 3 * PAPER_RULE_WEIGHT,
+  fiveOnBlack: PAPER_RULE_WEIGHT,
+  thumbPassing: PAPER_RULE_WEIGHT,
+  sameFinger: 1000,
+  beyondReach: 1000,
+  // Doubled after checking against the printed scale tables: at 1, a pass under 2 was as cheap as one
+  // under 3 and the model kept crossing 2 over the thumb at the top of left-hand flat-key scales.
+  crossing: 2,
+  fourFiveAlternation: 1,
+  repeatFingerChange: 1,
+  chordShift: 1,
+}
+
+/**
+ * Weights for what a student may actually have done: a hand may leave the keys, so a leap or a
+ * same-finger move is merely dear (about two thumb-unders), and the timing evidence in infer.ts
+ * decides whether it happened.
+ */
+export const PERFORMANCE_WEIGHTS: RuleWeights = { ...LEGATO_WEIGHTS, sameFinger: 5, beyondReach: 5 }
+
+/**
+ * Points for a thumb crossing by the finger it crosses with (common practice: the thumb passes
+ * easily under 3 and 4; under 2 it is cramped; 5 over the thumb is a last resort).
+ */
+const CROSSING_POINTS: Readonly<Record<Finger, number>> = { 1: 0, 2: 1, 3: 0, 4: 0, 5: 3 }
+
+/**
+ * MinRel used by the small-span rule when the thumb crosses: the paper's 1–4 value (5) makes a pass
+ * under 4 dearer than one under 3 by two points, but common practice treats the two as equally easy
+ * (the printed scale tables pass under 4 once an octave), so 4 takes 3's value.
+ */
+const CROSSING_MIN_REL: Readonly<Record<Finger, number>> = { 1: 0, 2: 3, 3: 3, 4: 3, 5: 7 }
+
+const over = (v: number): number => (v > 0 ? v : 0)
+
+/** Rules about one finger on one key. */
+export function noteRules(t: Touch, add: Add): void {
+  // Parncutt et al. 1997, rule 6 (weak finger): 1 point each time finger 4 or 5 is used.
+  if (t.f === 4 || t.f === 5) add('weakFinger', 1)
+  // Parncutt et al. 1997, rule 10 (thumb on black), first part: 1 point whenever the thumb plays a black key.
+  if (t.f === 1 && isBlackKey(t.k)) add('thumbOnBlack', 1)
+}
+
+/** The span rules for two fingers at once (consecutive notes, or two notes of a chord). */
+function spanRules(row: SpanRow, s: number, thumb: boolean, add: Add, small: boolean, minRel = row[MIN_REL]): void {
+  // Parncutt et al. 1997, rule 1 (stretch): 2 points per semitone beyond MinComf or MaxComf.
+  add('stretch', 2 * (over(row[MIN_COMF] - s) + over(s - row[MAX_COMF])))
+  const perSemitone = thumb ? 1 : 2
+  // Rule 2 (small span): 1 point per semitone below MinRel with the thumb, 2 without.
+  if (small) add('smallSpan', perSemitone * over(minRel - s))
+  // Rule 3 (large span): 1 point per semitone above MaxRel with the thumb, 2 without.
+  add('largeSpan', perSemitone * over(s - row[MAX_REL]))
+  if (s < row[MIN_PRAC] || s > row[MAX_PRAC]) add('beyondReach', 1)
+}
+
+function colourRules(a: Touch, b: Touch, add: Add): void {
+  const blackA = isBlackKey(a.k)
+  const blackB = isBlackKey(b.k)
+  // Parncutt et al. 1997, rule 10 (thumb on black), second part: 2 more points for a white neighbour on each side.
+  if (b.f === 1 && blackB && !blackA) add('thumbOnBlack', 2)
+  if (a.f === 1 && blackA && !blackB) add('thumbOnBlack', 2)
+  // Rule 11 (five on black): 2 points for each white neighbour of a black key played by 5.
+  if (b.f === 5 && blackB && !blackA) add('fiveOnBlack', 2)
+  if (a.f === 5 && blackA && !blackB) add('fiveOnBlack', 2)
+  // Rule 9 (four on black): 1 point when 3 and 4 follow each other, 3 on white and 4 on black.
+  if (a.f === 3 && b.f === 4 && !blackA && blackB) add('fourOnBlack', 1)
+  if (a.f === 4 && b.f === 3 && blackA && !blackB) add('fourOnBlack', 1)
+}
+
+/** Rules about two consecutive single notes; the second note's own rules are included. */
+export function pairRules(table: SpanRow[][], a: Touch, b: Touch, add: Add): void {
+  noteRules(b, add)
+  colourRules(a, b, add)
+  if (a.k === b.k) {
+    // Common practice: a repeated key may change finger, but in a drill that is a choice, not a need.
+    if (a.f !== b.f) add('repeatFingerChange', 1)
+    return
+  }
+  if (a.f === b.f) {
+    // Common practice: one finger cannot hold one key and press the next, so legato is impossible.
+    add('sameFinger', 1)
+    return
+  }
+  // Parncutt et al. 1997, rule 8 (three to four): 1 point each time 3 is immediately followed by 4.
+  if (a.f === 3 && b.f === 4) add('threeToFour', 1)
+  const { row, s } = pairSpan(table, a.f, a.k, b.f, b.k)
+  if (s < row[MIN_PRAC] || s > row[MAX_PRAC]) {
+    // Beyond the practical span the hand has to leave the keys, so the legato span rules no longer describe the move.
+    add('beyondReach', 1)
+    return
+  }
+  const thumb = a.f === 1 || b.f === 1
+  const crossing = thumb && s < 0
+  spanRules(row, s, thumb, add, true, crossing ? CROSSING_MIN_REL[a.f === 1 ? b.f : a.f] : row[MIN_REL])
+  if (crossing) {
+    const thumbKey = a.f === 1 ? a.k : b.k
+    const other = a.f === 1 ? b : a
+    // Rule 12 (thumb passing): 1 point for a pass on one level (white–white, black–black),
+    // 3 points when the finger is on white below and the thumb on black above.
+    if (isBlackKey(thumbKey) === isBlackKey(other.k)) add('thumbPassing', 1)
+    else if (isBlackKey(thumbKey)) add('thumbPassing', 3)
+    add('crossing', CROSSING_POINTS[other.f])
+  }
+}
+
+/** Rules about three consecutive single notes. */
+export function tripleRules(table: SpanRow[][], a: Touch, b: Touch, c: Touch, add: Add): void {
+  // Parncutt et al. 1997, rule 7 (three-four-five): 1 point when 3, 4 and 5 follow each other in any order.
+  if (a.f !== b.f && b.f !== c.f && a.f !== c.f && a.f + b.f + c.f === 12 && a.f >= 3 && b.f >= 3 && c.f >= 3) {
+    add('threeFourFive', 1)
+  }
+  // Common practice: 4 and 5 are the weakest pair; trilling between them tires the hand.
+  if (a.f === c.f && a.f + b.f === 9 && a.f >= 4 && b.f >= 4) add('fourFiveAlternation', 1)
+  const { row, s } = pairSpan(table, a.f, a.k, c.f, c.k)
+  const outsideComfort = over(row[MIN_COMF] - s) + over(s - row[MAX_COMF])
+  if (outsideComfort === 0) return
+  // Rule 4 (position-change count), from memory of the paper's wording: when the first and third
+  // notes lie outside the comfortable span, a full change (2 points) needs all three of: the middle
+  // note played by the thumb, the middle pitch outside the range of the outer two, and the outer
+  // two beyond the practical span; a half change (1 point) needs two of the three.
+  const conditions = (b.f === 1 ? 1 : 0)
+    + (b.k < Math.min(a.k, c.k) || b.k > Math.max(a.k, c.k) ? 1 : 0)
+    + (s < row[MIN_PRAC] || s > row[MAX_PRAC] ? 1 : 0)
+  if (conditions === 3) add('positionChangeCount', 2)
+  else if (conditions === 2) add('positionChangeCount', 1)
+  // Rule 5 (position-change size): the semitones by which the outer two lie beyond the comfortable span.
+  add('positionChangeSize', outsideComfort)
+}
+
+/** Rules inside one chord: every note's own rules and the spans between neighbouring fingers. */
+export function chordRules(table: SpanRow[][], touches: Touch[], add: Add): void {
+  for (const t of touches) noteRules(t, add)
+  for (let i = 1; i < touches.length; i++) {
+    const a = touches[i - 1]!
+    const b = touches[i]!
+    const { row, s } = pairSpan(table, a.f, a.k, b.f, b.k)
+    // Our extension of rules 1 and 3 to simultaneous notes; small spans are no strain in a chord.
+    spanRules(row, s, a.f === 1, add, false)
+  }
+}
+
+/**
+ * Rules between two items when either is a chord (our own extension; the paper covers melodies).
+ * Chords are struck, not joined legato, so the hand may move: a finger kept for the next chord costs
+ * half a point per semitone it travels, and every pair of different fingers pays the span rules,
+ * averaged over the pairs so that big chords do not outweigh small ones.
+ */
+export function chordTransitionRules(table: SpanRow[][], from: Touch[], to: Touch[], add: Add): void {
+  if (from.length === 0 || to.length === 0) return
+  const share = 1 / (from.length * to.length)
+  const shared: Add = (rule, points) => add(rule, points * share)
+  for (const a of from) {
+    for (const b of to) {
+      if (a.f === b.f) {
+        shared('chordShift', Math.abs(b.k - a.k) / 2)
+        continue
+      }
+      const { row, s } = pairSpan(table, a.f, a.k, b.f, b.k)
+      const stretch = 2 * (over(row[MIN_COMF] - s) + over(s - row[MAX_COMF]))
+      shared('stretch', stretch)
+    }
+  }
+}
+
+// --- Precomputed tables for single-note lines -----------------------------------------------------
+
+const KEY_RANGE = 257
+const KEY_OFFSET = 128
+
+export interface CostModel {
+  readonly table: SpanRow[][]
+  readonly weights: RuleWeights
+  /** Cost of each finger on the first key of a line, index finger − 1. */
+  first(k: number): Float64Array
+  /** Cost of moving between two single notes, index (fa − 1) · 5 + (fb − 1); includes b's own rules. */
+  pair(ka: number, kb: number): Float64Array
+  /** Extra cost of three consecutive single notes, index ((fa − 1) · 5 + (fb − 1)) · 5 + (fc − 1). */
+  triple(ka: number, kb: number, kc: number): Float64Array
+}
+
+const FINGER_LIST: readonly Finger[] = [1, 2, 3, 4, 5]
+const pc = (k: number): number => ((k % 12) + 12) % 12
+const clampInterval = (d: number): number => Math.max(-KEY_OFFSET, Math.min(KEY_OFFSET, d))
+
+/** The weighted sum of the points that `run` hands to its callback. */
+export function weigh(weights: RuleWeights, run: (add: Add) => void): number {
+  let total = 0
+  run((rule, points) => { total += weights[rule] * points })
+  return total
+}
+
+/**
+ * Builds the cost tables lazily: a pair's cost depends only on the first key's pitch class and the
+ * interval (which fix both colours and the span), a triple's only on the two intervals, so a whole
+ * line needs at most a few thousand small tables and the search itself only reads arrays.
+ */
+export function createCostModel(handSize: HandSize = 'medium', weights: RuleWeights = LEGATO_WEIGHTS): CostModel {
+  const table = spanTable(handSize)
+  const firsts: (Float64Array | undefined)[] = new Array(12)
+  const pairs: (Float64Array | undefined)[] = new Array(12 * KEY_RANGE)
+  const triples: (Float64Array | undefined)[] = new Array(KEY_RANGE * KEY_RANGE)
+  return {
+    table,
+    weights,
+    first(k) {
+      const p = pc(k)
+      let out = firsts[p]
+      if (!out) {
+        out = new Float64Array(5)
+        for (const f of FINGER_LIST) out[f - 1] = weigh(weights, add => noteRules({ f, k: p }, add))
+        firsts[p] = out
+      }
+      return out
+    },
+    pair(ka, kb) {
+      const p = pc(ka)
+      const d = clampInterval(kb - ka)
+      const slot = p * KEY_RANGE + d + KEY_OFFSET
+      let out = pairs[slot]
+      if (!out) {
+        out = new Float64Array(25)
+        for (const fa of FINGER_LIST) {
+          for (const fb of FINGER_LIST) {
+            out[(fa - 1) * 5 + fb - 1] = weigh(weights, add => pairRules(table, { f: fa, k: p }, { f: fb, k: p + d }, add))
+          }
+        }
+        pairs[slot] = out
+      }
+      return out
+    },
+    triple(ka, kb, kc) {
+      const d1 = clampInterval(kb - ka)
+      const d2 = clampInterval(kc - kb)
+      const slot = (d1 + KEY_OFFSET) * KEY_RANGE + d2 + KEY_OFFSET
+      let out = triples[slot]
+      if (!out) {
+        out = new Float64Array(125)
+        for (const fa of FINGER_LIST) {
+          for (const fb of FINGER_LIST) {
+            for (const fc of FINGER_LIST) {
+              out[((fa - 1) * 5 + fb - 1) * 5 + fc - 1] = weigh(weights, add =>
+                tripleRules(table, { f: fa, k: 0 }, { f: fb, k: d1 }, { f: fc, k: d1 + d2 }, add))
+            }
+          }
+        }
+        triples[slot] = out
+      }
+      return out
+    },
+  }
+}
+
+const modelCache = new WeakMap<RuleWeights, Map<HandSize, CostModel>>()
+
+/** One shared model per weighting and hand size; the tables only grow and are never invalidated. */
+export function costModel(handSize: HandSize = 'medium', weights: RuleWeights = LEGATO_WEIGHTS): CostModel {
+  let bySize = modelCache.get(weights)
+  if (!bySize) {
+    bySize = new Map()
+    modelCache.set(weights, bySize)
+  }
+  let model = bySize.get(handSize)
+  if (!model) {
+    model = createCostModel(handSize, weights)
+    bySize.set(handSize, model)
+  }
+  return model
+}
+
+// --- Whole fingerings -----------------------------------------------------------------------------
+
+/** The touches of each item: keys in right-hand space with their fingers (chord fingers given low to high in pitch). */
+export function lineTouches(hand: Hand, items: LineItem[], fingers: (Finger | Finger[])[]): Touch[][] {
+  return items.map((item, i) => {
+    const given = fingers[i]
+    if (!Array.isArray(item)) return typeof given === 'number' ? [{ f: given, k: toRightHandSpace(hand, item) }] : []
+    const list = Array.isArray(given) ? given : given === undefined ? [] : [given]
+    const seen = new Set<number>()
+    const touches: Touch[] = []
+    itemPitchesLowToHigh(item).forEach((midi, j) => {
+      const f = list[j]
+      const k = toRightHandSpace(hand, midi)
+      if (f === undefined || seen.has(k)) return
+      seen.add(k)
+      touches.push({ f, k })
+    })
+    return touches.sort((x, y) => x.k - y.k)
+  })
+}
+
+export interface FingeringScore {
+  total: number
+  byRule: Record<Rule, number>
+}
+
+/**
+ * Every rule's points for a given fingering of a line, under the given weights (the paper's
+ * rules count one each). This is the model the search minimises, evaluated rule by rule.
+ */
+export function scoreFingering(hand: Hand, items: LineItem[], fingers: (Finger | Finger[])[], handSize: HandSize = 'medium', weights: RuleWeights = LEGATO_WEIGHTS): FingeringScore {
+  const table = spanTable(handSize)
+  const byRule = Object.fromEntries(Object.keys(weights).map(r => [r, 0])) as Record<Rule, number>
+  const add: Add = (rule, points) => { byRule[rule] += points }
+  const line = lineTouches(hand, items, fingers)
+  line.forEach((touches, i) => {
+    const prev = line[i - 1]
+    const single = touches.length === 1 && prev?.length === 1
+    if (i === 0 || !prev) chordRules(table, touches, add)
+    else if (single) pairRules(table, prev[0]!, touches[0]!, add)
+    else {
+      chordRules(table, touches, add)
+      chordTransitionRules(table, prev, touches, add)
+    }
+    const before = line[i - 2]
+    if (single && before?.length === 1) tripleRules(table, before[0]!, prev[0]!, touches[0]!, add)
+  })
+  let total = 0
+  for (const rule of Object.keys(byRule) as Rule[]) total += weights[rule] * byRule[rule]
+  return { total, byRule }
+}
+
+/** Two touches fit one hand position: different fingers in key order within the comfortable span, or one finger on one key. */
+export function fitsPosition(table: SpanRow[][], a: Touch, b: Touch): boolean {
+  if (a.f === b.f) return a.k === b.k
+  const { row, s } = pairSpan(table, a.f, a.k, b.f, b.k)
+  return s > 0 && s >= row[MIN_COMF] && s <= row[MAX_COMF]
+}
+
+/**
+ * Indices of the items where a new hand position begins for a given fingering (first item not counted).
+ * A hand position is the set of touches since the last change; a note starts a new one when it does
+ * not fit with every touch of the current one (a crossing, the same finger on another key, or a span
+ * beyond the comfortable range), which is how teachers mark a "new position" in a drill.
+ */
+export function positionStarts(hand: Hand, items: LineItem[], fingers: (Finger | Finger[])[], handSize: HandSize = 'medium'): number[] {
+  const table = spanTable(handSize)
+  const starts: number[] = []
+  let current: Touch[] = []
+  lineTouches(hand, items, fingers).forEach((touches, i) => {
+    if (touches.length === 0) return
+    const fits = touches.every(t => current.every(held => fitsPosition(table, held, t)))
+    if (fits) {
+      // A finger that plays again now sits on its new key (which fitting allows only if it is the same key).
+      for (const t of touches) {
+        const same = current.findIndex(held => held.f === t.f)
+        if (same >= 0) current[same] = t
+        else current.push(t)
+      }
+      return
+    }
+    if (current.length > 0) starts.push(i)
+    current = [...touches]
+  })
+  return starts
+}
