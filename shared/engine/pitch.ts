@@ -11,12 +11,19 @@ export class PitchError extends Error {
   override name = 'PitchError'
 }
 
+/** Names already read; grading reads every drill note's name on every attempt. */
+const known = new Map<string, number>()
+const KNOWN_LIMIT = 2048
+
 /** The MIDI number of a spelled name such as `C4`, `F##4`, `Cb5` or `Bb3`. */
 export function midiFromName(name: string): number {
+  const cached = known.get(name)
+  if (cached !== undefined) return cached
   const match = NAME_SHAPE.exec(name.trim())
   if (!match) throw new PitchError(`"${name}" is not a pitch: expected a letter A–G, an optional # ## b or bb, and an octave -1 to 9, such as C4, F#3 or Bb5`)
   const midi = Note.midi(`${match[1]!.toUpperCase()}${match[2] ?? ''}${match[3]}`)
   if (midi === null || midi < 0 || midi > 127) throw new PitchError(`"${name}" lies outside the MIDI range C-1 to G9`)
+  if (known.size < KNOWN_LIMIT) known.set(name, midi)
   return midi
 }
 

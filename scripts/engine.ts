@@ -1,0 +1,88 @@
+// The engine on the command line: `npm run -s engine -- suggest|grade` reads one JSON document
+// on standard input and writes one on standard output, for scripts, benchmarks and checks.
+// Bad input exits with 2 and a message on standard error; stdout then stays empty.
+import { z } from 'zod'
+import { gradeAttempt } from '../shared/engine/grade'
+import { PitchError, toMidi } from '../shared/engine/pitch'
+import { suggestFingering } from '../shared/engine/suggest'
+import { PlayedEvent } from '../shared/types/attempt'
+import { DrillMusic, Hand, HandSize } from '../shared/types/drill'
+
+const PitchValue = z.union([z.number(), z.string()])
+
+// Names and numbers are checked in one place after the shape, so the message says what is wrong
+// with this pitch (PitchError's wording) rather than that no union branch matched.
+const LineItemInput = z.union([PitchValue, z.array(PitchValue).min(1).max(10)]).transform((value, ctx) => {
+  try {
+    return Array.isArray(value) ? value.map(toMidi) : toMidi(value)
+  }
+  catch (error) {
+    ctx.addIssue({ code: 'custom', message: error instanceof Error ? error.message : String(error) })
+    return z.NEVER
+  }
+})
+
+const SuggestRequest = z.object({
+  hand: Hand,
+  notes: z.array(LineItemInput).min(1).max(5000),
+  handSize: HandSize.optional(),
+})
+
+const GradeRequest = z.object({
+  drill: DrillMusic,
+  // Wider than a saved attempt's limit, so benchmarks and checks can feed long runs.
+  events: z.array(PlayedEvent).max(1_000_000),
+  options: z.object({
+    targetBpm: z.number().min(20).max(320).optional(),
+    handSize: HandSize.optional(),
+  }).optional(),
+})
+
+class InputError extends Error {}
+
+function validate<T extends z.ZodType>(schema: T, data: unknown): z.output<T> {
+  const result = schema.safeParse(data)
+  if (!result.success) throw new InputError(z.prettifyError(result.error))
+  return result.data
+}
+
+function run(command: string | undefined, input: string): unknown {
+  if (command !== 'suggest' && command !== 'grade') {
+    throw new InputError(`Usage: npm run -s engine -- suggest|grade < input.json (got ${command === undefined ? 'no command' : `"${command}"`})`)
+  }
+  let data: unknown
+  try {
+    data = JSON.parse(input)
+  }
+  catch (error) {
+    throw new InputError(`Standard input is not JSON: ${error instanceof Error ? error.message : String(error)}`)
+  }
+  if (command === 'suggest') {
+    const request = validate(SuggestRequest, data)
+    const result = suggestFingering(request)
+    return { fingers: result.fingers, positionChanges: result.positionChanges, positions: result.positions, cost: result.cost }
+  }
+  const request = validate(GradeRequest, data)
+  return gradeAttempt(request.drill, request.events, request.options)
+}
+
+async function readStdin(): Promise<string> {
+  const chunks: Buffer[] = []
+  for await (const chunk of process.stdin) chunks.push(chunk as Buffer)
+  return Buffer.concat(chunks).toString('utf8')
+}
+
+try {
+  const output = run(process.argv[2], await readStdin())
+  process.stdout.write(`${JSON.stringify(output)}\n`)
+}
+catch (error) {
+  // A drill's pitch that the schema's shape accepts but the MIDI range does not (G#9) is bad input too.
+  if (error instanceof InputError || error instanceof PitchError) {
+    process.stderr.write(`${error.message}\n`)
+    process.exitCode = 2
+  }
+  else {
+    throw error
+  }
+}

@@ -1,0 +1,255 @@
+// Grading one attempt: pair the raw events into notes, align them with the drill, then measure
+// accuracy, timing evenness, loudness evenness, hand-position changes and tempo, and weigh
+// them into one score. The server re-runs this on every saved attempt, so it must accept any
+// event list without throwing and stay cheap (a 1,000-note attempt in a few milliseconds).
+//
+// Score (also returned as `scoreFormula`, built from the constants below so the two cannot drift):
+//   score = 100 × Σ weight × part, weights accuracy 0.35, timing 0.25, loudness 0.15, positions 0.10, tempo 0.15
+//   accuracy  = correct / (drill notes + extra notes)
+//   timing    = max(0, 1 − cvPercent / 20)           (cvPercent: onset SD as % of the note step)
+//   loudness  = max(0, 1 − velocity SD / 20)
+//   positions = max(0, 1 − |played − planned| / (planned + 1))
+//   tempo     = min(played, target) / max(played, target)
+//   Every part but accuracy is multiplied by the share of drill notes played (correct + wrong),
+//   so three clean notes out of a hundred do not earn the timing and tempo marks. Where no note
+//   carried a velocity (on-screen keys), loudness drops out and the other weights are rescaled.
+import { alignNotes } from './align'
+import { positionStarts } from './ergonomics'
+import { noteHand } from './hands'
+import { inferFingering, type PerformedNote } from './infer'
+import { pairNoteEvents, type PlayedNote } from './performance'
+import { midiFromName } from './pitch'
+import { leastSquaresLine, mean, median, standardDeviation } from './stats'
+import { suggestFingering } from './suggest'
+import type { DrillMusic, Finger, GradeOptions, GradeResult, Hand, LineItem, PlayedEvent } from './types'
+
+/** Stored with every attempt, so grades from an older engine can be told apart and recomputed. */
+export const ENGINE_VERSION = '1.0.0'
+
+type Part = keyof GradeResult['scoreParts']
+
+const WEIGHTS: Record<Part, number> = { accuracy: 0.35, timing: 0.25, loudness: 0.15, positions: 0.1, tempo: 0.15 }
+/** An onset SD this large a share of the note step earns no timing marks (a clearly audible unevenness, common practice). */
+const TIMING_ZERO_CV_PERCENT = 20
+/** A velocity SD this large earns no loudness marks (about one dynamic level, from memory). */
+const LOUDNESS_ZERO_SD = 20
+/** The velocity handed to the inference for notes that carried none: the middle of the MIDI range. */
+const NEUTRAL_VELOCITY = 64
+
+export const SCORE_FORMULA = `score = 100 × (${WEIGHTS.accuracy}·accuracy + ${WEIGHTS.timing}·timing + ${WEIGHTS.loudness}·loudness + ${WEIGHTS.positions}·positions + ${WEIGHTS.tempo}·tempo); `
+  + `accuracy = correct / (drill notes + extra); timing = max(0, 1 − cvPercent / ${TIMING_ZERO_CV_PERCENT}); `
+  + `loudness = max(0, 1 − velocity SD / ${LOUDNESS_ZERO_SD}); positions = max(0, 1 − |played − planned| / (planned + 1)); `
+  + `tempo = min(played, target) / max(played, target); every part but accuracy is multiplied by the share of drill notes played; `
+  + `without any velocity, loudness drops out and the other weights are rescaled to sum 1`
+
+interface Target {
+  index: number
+  midi: number
+  beat: number
+  hand: Hand
+  finger: Finger | null
+}
+
+function targetsOf(drill: DrillMusic): Target[] {
+  return drill.notes.map((note, index) => {
+    const midi = midiFromName(note.pitch)
+    return { index, midi, beat: note.beat, hand: noteHand(drill.hand, note, midi), finger: note.finger ?? null }
+  })
+}
+
+/** Drill notes of one hand as a line: notes on one beat form a chord, low to high. */
+function lineOf(targets: Target[]): Target[][] {
+  const sorted = [...targets].sort((a, b) => a.beat - b.beat || a.midi - b.midi)
+  const items: Target[][] = []
+  for (const t of sorted) {
+    const last = items[items.length - 1]
+    if (last && last[0]!.beat === t.beat) last.push(t)
+    else items.push([t])
+  }
+  return items
+}
+
+/** Where the planned fingering changes position; fingers the teacher left open come from the suggestion. */
+function plannedPositionStarts(hand: Hand, targets: Target[], handSize: GradeOptions['handSize']): number[] {
+  const items = lineOf(targets)
+  if (items.length === 0) return []
+  const line: LineItem[] = items.map(item => item.length === 1 ? item[0]!.midi : item.map(t => t.midi))
+  const suggested = items.some(item => item.some(t => t.finger === null))
+    ? suggestFingering({ hand, notes: line, handSize }).fingers
+    : null
+  const fingers = items.map((item, k): Finger | Finger[] => {
+    const fill = (t: Target, member: number): Finger => {
+      const s = suggested?.[k]
+      return t.finger ?? (Array.isArray(s) ? s[member]! : s!)
+    }
+    return item.length === 1 ? fill(item[0]!, 0) : item.map(fill)
+  })
+  return positionStarts(hand, line, fingers, handSize).map(k => items[k]![0]!.index)
+}
+
+interface Inferred {
+  fingers: GradeResult['inferredFingers']
+  at: number[]
+}
+
+/** The inference over each hand's matched notes, mapped back to drill-note indices. */
+function inferPerHand(targets: Target[], matched: (PlayedNote | null)[], handSize: GradeOptions['handSize']): Inferred {
+  const fingers: GradeResult['inferredFingers'] = targets.map(() => ({ finger: null, confidence: 0 }))
+  const at: number[] = []
+  for (const hand of ['right', 'left'] as const) {
+    const mine = targets.filter(t => t.hand === hand && matched[t.index] !== null)
+      .sort((a, b) => matched[a.index]!.onMs - matched[b.index]!.onMs || a.midi - b.midi)
+    if (mine.length === 0) continue
+    const notes: PerformedNote[] = mine.map((t) => {
+      const p = matched[t.index]!
+      return { midi: p.midi, onMs: p.onMs, offMs: p.offMs, velocity: p.velocity ?? NEUTRAL_VELOCITY }
+    })
+    const result = inferFingering(hand, notes, handSize)
+    mine.forEach((t, k) => {
+      const f = result.fingers[k]
+      if (f) fingers[t.index] = { finger: f.finger, confidence: f.confidence }
+    })
+    for (const k of result.positions) if (mine[k]) at.push(mine[k].index)
+  }
+  return { fingers, at: at.sort((a, b) => a - b) }
+}
+
+interface Timing {
+  timing: GradeResult['timing']
+  msPerBeat: number | null
+}
+
+/** The drill's typical step: the median gap between consecutive distinct beats. */
+function typicalStep(targets: Target[]): number | null {
+  const beats = [...new Set(targets.map(t => t.beat))].sort((a, b) => a - b)
+  const gaps: number[] = []
+  for (let k = 1; k < beats.length; k++) gaps.push(beats[k]! - beats[k - 1]!)
+  return median(gaps)
+}
+
+function measureTiming(targets: Target[], matched: (PlayedNote | null)[]): Timing {
+  const deviationsMs: (number | null)[] = targets.map(() => null)
+  const xs: number[] = []
+  const ys: number[] = []
+  for (const t of targets) {
+    const p = matched[t.index]
+    if (!p) continue
+    xs.push(t.beat)
+    ys.push(p.onMs)
+  }
+  const line = leastSquaresLine(xs, ys)
+  const msPerBeat = line && line.slope > 0 ? line.slope : null
+  if (!line || msPerBeat === null) {
+    return { timing: { sdMs: null, cvPercent: null, ioiVariationPercent: null, deviationsMs }, msPerBeat }
+  }
+  const residuals: number[] = []
+  for (const t of targets) {
+    const p = matched[t.index]
+    if (!p) continue
+    const r = p.onMs - (line.intercept + line.slope * t.beat)
+    deviationsMs[t.index] = r
+    residuals.push(r)
+  }
+  const sdMs = standardDeviation(residuals)!
+  const step = typicalStep(targets)
+  const cvPercent = step ? (100 * sdMs) / (msPerBeat * step) : null
+  return { timing: { sdMs, cvPercent, ioiVariationPercent: ioiVariation(xs, ys), deviationsMs }, msPerBeat }
+}
+
+/**
+ * Local unevenness: the mean change between consecutive inter-onset intervals (each per beat,
+ * chords taken at their mean onset) as a percentage of the mean interval. A steady drift in
+ * tempo barely moves it; a limp on every other note does.
+ */
+function ioiVariation(beats: number[], onsets: number[]): number | null {
+  const byBeat = new Map<number, { sum: number, n: number }>()
+  beats.forEach((b, k) => {
+    const e = byBeat.get(b) ?? { sum: 0, n: 0 }
+    e.sum += onsets[k]!
+    e.n++
+    byBeat.set(b, e)
+  })
+  const points = [...byBeat].sort((a, b) => a[0] - b[0]).map(([b, e]) => [b, e.sum / e.n] as const)
+  const iois: number[] = []
+  for (let k = 1; k < points.length; k++) iois.push((points[k]![1] - points[k - 1]![1]) / (points[k]![0] - points[k - 1]![0]))
+  if (iois.length < 2) return null
+  const changes: number[] = []
+  for (let k = 1; k < iois.length; k++) changes.push(Math.abs(iois[k]! - iois[k - 1]!))
+  const meanIoi = mean(iois)!
+  return meanIoi > 0 ? (100 * mean(changes)!) / meanIoi : null
+}
+
+function measureLoudness(targets: Target[], matched: (PlayedNote | null)[], fingers: GradeResult['inferredFingers']): GradeResult['loudness'] {
+  const velocities = targets.map(t => matched[t.index]?.velocity ?? null)
+  const present = velocities.filter((v): v is number => v !== null)
+  const overall = mean(present)
+  const byFinger: GradeResult['loudness']['byFinger'] = { 1: null, 2: null, 3: null, 4: null, 5: null }
+  if (overall !== null) {
+    for (const f of [1, 2, 3, 4, 5] as const) {
+      const own = targets.flatMap(t => fingers[t.index]!.finger === f && velocities[t.index] !== null ? [velocities[t.index]!] : [])
+      const m = mean(own)
+      byFinger[f] = m === null ? null : m - overall
+    }
+  }
+  const measured = ([1, 2, 3, 4, 5] as const).filter(f => byFinger[f] !== null)
+  // Loudest and softest mean something only between at least two fingers.
+  const pick = (sign: 1 | -1): Finger | null => measured.length < 2
+    ? null
+    : measured.reduce((best, f) => sign * byFinger[f]! > sign * byFinger[best]! ? f : best)
+  return { sd: standardDeviation(present), mean: overall, byFinger, loudestFinger: pick(1), softestFinger: pick(-1), velocities }
+}
+
+const clamp01 = (x: number): number => Math.min(1, Math.max(0, x))
+
+export function gradeAttempt(drill: DrillMusic, events: PlayedEvent[], options: GradeOptions = {}): GradeResult {
+  const targets = targetsOf(drill)
+  const played = pairNoteEvents(events)
+  const alignment = alignNotes(targets, played)
+  const matched = alignment.match.map(k => (k === null ? null : played[k]!))
+
+  const { timing, msPerBeat } = measureTiming(targets, matched)
+  const inferred = inferPerHand(targets, matched, options.handSize)
+  const loudness = measureLoudness(targets, matched, inferred.fingers)
+  const plannedAt = (['right', 'left'] as const)
+    .flatMap(hand => plannedPositionStarts(hand, targets.filter(t => t.hand === hand), options.handSize))
+    .sort((a, b) => a - b)
+  const targetBpm = options.targetBpm ?? drill.tempoBpm
+  const playedBpm = msPerBeat === null ? null : 60_000 / msPerBeat
+
+  const { correct, wrong, extra, missed } = alignment.counts
+  const total = targets.length
+  const coverage = total === 0 ? 0 : (correct + wrong) / total
+  const values: Record<Part, number> = {
+    accuracy: total + extra === 0 ? 0 : correct / (total + extra),
+    timing: timing.cvPercent === null ? 0 : coverage * clamp01(1 - timing.cvPercent / TIMING_ZERO_CV_PERCENT),
+    loudness: loudness.sd === null ? 0 : coverage * clamp01(1 - loudness.sd / LOUDNESS_ZERO_SD),
+    positions: coverage * clamp01(1 - Math.abs(inferred.at.length - plannedAt.length) / (plannedAt.length + 1)),
+    tempo: playedBpm === null ? 0 : coverage * Math.min(playedBpm, targetBpm) / Math.max(playedBpm, targetBpm),
+  }
+  const loudnessUnmeasured = correct + wrong > 0 && loudness.sd === null
+  const weightSum = loudnessUnmeasured ? 1 - WEIGHTS.loudness : 1
+  const scoreParts = Object.fromEntries((Object.keys(WEIGHTS) as Part[]).map(part => [part, {
+    value: values[part],
+    weight: part === 'loudness' && loudnessUnmeasured ? 0 : WEIGHTS[part] / weightSum,
+  }])) as GradeResult['scoreParts']
+  const score = 100 * (Object.values(scoreParts) as { value: number, weight: number }[]).reduce((s, p) => s + p.value * p.weight, 0)
+
+  return {
+    engineVersion: ENGINE_VERSION,
+    score: Math.round(score * 10) / 10,
+    scoreParts,
+    scoreFormula: SCORE_FORMULA,
+    accuracy: { correct, wrong, extra, missed, total },
+    timing,
+    loudness,
+    positionChanges: { planned: plannedAt.length, played: inferred.at.length, at: inferred.at, plannedAt },
+    tempo: { targetBpm, playedBpm },
+    inferredFingers: inferred.fingers,
+    notes: targets.map(t => ({
+      outcome: alignment.outcome[t.index]!,
+      eventIndex: matched[t.index]?.eventIndex ?? null,
+      playedNote: matched[t.index]?.midi ?? null,
+    })),
+    extras: alignment.extras.map(k => played[k]!.eventIndex),
+  }
+}

@@ -1,0 +1,12 @@
+// The engine's public face: what pages, server routes and scripts import.
+export type * from './types'
+export * from './pitch'
+export { NOTATION_HELP, NotationError, formatNotation, parseNotation, type FormatOptions, type NotationOptions } from './notation'
+export { ImportError } from './importing'
+export { EXPORT_PPQ, exportAttemptSmf, exportDrillSmf, importSmf, type AttemptExportOptions, type SmfImportOptions } from './smf'
+export { importMusicXml, type MusicXmlImportOptions } from './musicxml'
+export { alignNotes, type Alignment } from './align'
+export { suggestFingering } from './suggest'
+export { positionStarts } from './ergonomics'
+export { inferFingering, type InferResult, type PerformedNote } from './infer'
+export { ENGINE_VERSION, SCORE_FORMULA, gradeAttempt } from './grade'

@@ -1,0 +1,59 @@
+import { spawnSync } from 'node:child_process'
+import { fileURLToPath } from 'node:url'
+import { describe, expect, it } from 'vitest'
+
+const root = fileURLToPath(new URL('../../../', import.meta.url))
+
+/** Runs the command line as `npm run -s engine` does (tsx on scripts/engine.ts), without npm's start-up. */
+function engine(command: string, input: string): { status: number | null, stdout: string, stderr: string } {
+  const run = spawnSync(`${root}node_modules/.bin/tsx`, ['scripts/engine.ts', command], { cwd: root, input, encoding: 'utf8' })
+  return { status: run.status, stdout: run.stdout, stderr: run.stderr }
+}
+
+describe('scripts/engine.ts', () => {
+  it('suggest: fingers a C-major line given as names, numbers and a chord', () => {
+    const run = engine('suggest', JSON.stringify({ hand: 'right', notes: ['C4', 'D4', 64, ['C4', 'E4', 'G4']], handSize: 'small' }))
+    expect(run.status).toBe(0)
+    const out = JSON.parse(run.stdout)
+    expect(Object.keys(out).sort()).toEqual(['cost', 'fingers', 'positionChanges', 'positions'])
+    expect(out.fingers).toHaveLength(4)
+    expect(out.fingers[3]).toHaveLength(3)
+    expect(out.positionChanges).toBe(out.positions.length)
+  })
+
+  it('grade: returns the GradeResult for a drill and its events', () => {
+    const drill = {
+      hand: 'right',
+      tempoBpm: 100,
+      notes: ['C4', 'D4', 'E4', 'F4'].map((pitch, k) => ({ pitch, beat: k / 2, length: 0.5, finger: [1, 2, 3, 4][k] })),
+    }
+    const events = [60, 62, 64, 66].flatMap((note, k) => [
+      { note, on: true, velocity: 64, timeMs: k * 300 },
+      { note, on: false, timeMs: k * 300 + 250 },
+    ])
+    const run = engine('grade', JSON.stringify({ drill, events }))
+    expect(run.status).toBe(0)
+    const out = JSON.parse(run.stdout)
+    expect(out.accuracy).toEqual({ correct: 3, wrong: 1, extra: 0, missed: 0, total: 4 })
+    expect(out.timing.sdMs).toBeCloseTo(0, 6)
+    expect(out.tempo).toEqual({ targetBpm: 100, playedBpm: 100 })
+    expect(out.inferredFingers).toHaveLength(4)
+    expect(typeof out.score).toBe('number')
+    expect(out.positionChanges).toHaveProperty('at')
+    expect(out.loudness).toHaveProperty('byFinger')
+  })
+
+  it.each([
+    ['suggest', 'not json', /not JSON/],
+    ['suggest', '{"hand":"middle","notes":["C4"]}', /hand/],
+    ['suggest', '{"hand":"right","notes":["H4"]}', /"H4" is not a pitch[\s\S]*notes\[0\]/],
+    ['grade', '{"drill":{"hand":"right","tempoBpm":100,"notes":[]},"events":[]}', /notes/],
+    ['grade', '{"drill":{"hand":"right","tempoBpm":100,"notes":[{"pitch":"G#9","beat":0,"length":1}]},"events":[]}', /MIDI range/],
+    ['transpose', '{}', /Usage/],
+  ])('%s exits 2 with a message for bad input %j', (command, input, message) => {
+    const run = engine(command, input)
+    expect(run.status).toBe(2)
+    expect(run.stdout).toBe('')
+    expect(run.stderr).toMatch(message)
+  })
+})
