@@ -10,7 +10,7 @@ export interface Touch { f: Finger, k: number }
 export type Rule =
   | 'stretch' | 'smallSpan' | 'largeSpan' | 'positionChangeCount' | 'positionChangeSize' | 'weakFinger'
   | 'threeFourFive' | 'threeToFour' | 'fourOnBlack' | 'thumbOnBlack' | 'fiveOnBlack' | 'thumbPassing'
-  | 'sameFinger' | 'beyondReach' | 'crossing' | 'fourFiveAlternation' | 'repeatFingerChange' | 'chordShift'
+  | 'sameFinger' | 'beyondReach' | 'crossing' | 'fourFiveAlternation' | 'repeatFingerChange' | 'chordShift' | 'chordShape'
 
 export type RuleWeights = Readonly<Record<Rule, number>>
 
@@ -49,6 +49,7 @@ export const LEGATO_WEIGHTS: RuleWeights = {
   fourFiveAlternation: 1,
   repeatFingerChange: 1,
   chordShift: 1,
+  chordShape: 1,
 }
 
 /**
@@ -71,6 +72,9 @@ const CROSSING_POINTS: Readonly<Record<Finger, number>> = { 1: 0, 2: 1, 3: 0, 4:
  */
 const CROSSING_MIN_REL: Readonly<Record<Finger, number>> = { 1: 0, 2: 3, 3: 3, 4: 3, 5: 7 }
 
+/** Semitones above the thumb of each finger's key in the rest position C D E F G (index = finger). */
+const REST_POSITION = [0, 0, 2, 4, 5, 7]
+
 const over = (v: number): number => (v > 0 ? v : 0)
 
 /** Rules about one finger on one key. */
@@ -82,12 +86,12 @@ export function noteRules(t: Touch, add: Add): void {
 }
 
 /** The span rules for two fingers at once (consecutive notes, or two notes of a chord). */
-function spanRules(row: SpanRow, s: number, thumb: boolean, add: Add, small: boolean, minRel = row[MIN_REL]): void {
+function spanRules(row: SpanRow, s: number, thumb: boolean, add: Add, minRel = row[MIN_REL]): void {
   // Parncutt et al. 1997, rule 1 (stretch): 2 points per semitone beyond MinComf or MaxComf.
   add('stretch', 2 * (over(row[MIN_COMF] - s) + over(s - row[MAX_COMF])))
   const perSemitone = thumb ? 1 : 2
   // Rule 2 (small span): 1 point per semitone below MinRel with the thumb, 2 without.
-  if (small) add('smallSpan', perSemitone * over(minRel - s))
+  add('smallSpan', perSemitone * over(minRel - s))
   // Rule 3 (large span): 1 point per semitone above MaxRel with the thumb, 2 without.
   add('largeSpan', perSemitone * over(s - row[MAX_REL]))
   if (s < row[MIN_PRAC] || s > row[MAX_PRAC]) add('beyondReach', 1)
@@ -131,7 +135,7 @@ export function pairRules(table: SpanRow[][], a: Touch, b: Touch, add: Add): voi
   }
   const thumb = a.f === 1 || b.f === 1
   const crossing = thumb && s < 0
-  spanRules(row, s, thumb, add, true, crossing ? CROSSING_MIN_REL[a.f === 1 ? b.f : a.f] : row[MIN_REL])
+  spanRules(row, s, thumb, add, (crossing ? CROSSING_MIN_REL[a.f === 1 ? b.f : a.f] : undefined) ?? row[MIN_REL])
   if (crossing) {
     const thumbKey = a.f === 1 ? a.k : b.k
     const other = a.f === 1 ? b : a
@@ -139,7 +143,7 @@ export function pairRules(table: SpanRow[][], a: Touch, b: Touch, add: Add): voi
     // 3 points when the finger is on white below and the thumb on black above.
     if (isBlackKey(thumbKey) === isBlackKey(other.k)) add('thumbPassing', 1)
     else if (isBlackKey(thumbKey)) add('thumbPassing', 3)
-    add('crossing', CROSSING_POINTS[other.f])
+    add('crossing', CROSSING_POINTS[other.f] ?? 0)
   }
 }
 
@@ -174,8 +178,18 @@ export function chordRules(table: SpanRow[][], touches: Touch[], add: Add): void
     const a = touches[i - 1]!
     const b = touches[i]!
     const { row, s } = pairSpan(table, a.f, a.k, b.f, b.k)
-    // Our extension of rules 1 and 3 to simultaneous notes; small spans are no strain in a chord.
-    spanRules(row, s, a.f === 1, add, false)
+    // Our extension of rules 1 to 3 to simultaneous notes.
+    spanRules(row, s, a.f === 1, add)
+  }
+  // Common practice: the hand at rest lies on five neighbouring white keys (C D E F G), so a chord is
+  // taken with the fingers that fall on its keys (C–E–G with 1–3–5, not 1–2–4); half a point per
+  // semitone that any two of its notes differ from that rest shape.
+  for (let i = 0; i < touches.length; i++) {
+    for (let j = i + 1; j < touches.length; j++) {
+      const a = touches[i]!
+      const b = touches[j]!
+      add('chordShape', Math.abs(b.k - a.k - (REST_POSITION[b.f]! - REST_POSITION[a.f]!)) / 2)
+    }
   }
 }
 
