@@ -1,7 +1,8 @@
 // What the MIDI and MusicXML importers share: turning what a file says into a drill the
 // rest of the app accepts (the same limits as a typed drill), with one kind of error.
 import { DrillMusic } from '../types/drill'
-import type { DrillHand, DrillNote, ImportedDrill } from './types'
+import type { DrillHand } from '../types/drill'
+import type { DrillNote, ImportedDrill } from './types'
 
 export class ImportError extends Error {
   override name = 'ImportError'
