@@ -36,7 +36,7 @@ export const CHORD_WINDOW_MS = 30
 const SUBSTITUTE = 3
 const GAP = 2
 /** Extra band width beyond the length difference: room for local detours (a skipped or added run). */
-const BAND_MARGIN = 64
+const BAND_MARGIN = 32
 /** Upper bound on DP cells (bytes of traceback), so junk input cannot exhaust memory. */
 const MAX_CELLS = 40_000_000
 const INF = 0x3fffffff

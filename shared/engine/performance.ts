@@ -30,25 +30,29 @@ function isUsable(event: PlayedEvent): boolean {
  */
 export function pairNoteEvents(events: readonly PlayedEvent[]): PlayedNote[] {
   const order: number[] = []
-  for (let i = 0; i < events.length; i++) if (isUsable(events[i]!)) order.push(i)
-  order.sort((a, b) => {
-    const ea = events[a]!
-    const eb = events[b]!
-    return ea.timeMs - eb.timeMs || Number(isNoteOn(ea)) - Number(isNoteOn(eb)) || a - b
-  })
-  const held = new Map<number, PlayedNote>()
+  const time = new Float64Array(events.length)
+  const press = new Uint8Array(events.length)
+  for (let i = 0; i < events.length; i++) {
+    const event = events[i]!
+    if (!isUsable(event)) continue
+    order.push(i)
+    time[i] = event.timeMs
+    press[i] = isNoteOn(event) ? 1 : 0
+  }
+  order.sort((a, b) => time[a]! - time[b]! || press[a]! - press[b]! || a - b)
+  const held: (PlayedNote | undefined)[] = Array.from({ length: 128 })
   const notes: PlayedNote[] = []
   for (const index of order) {
     const event = events[index]!
-    const open = held.get(event.note)
+    const open = held[event.note]
     if (open) {
       open.offMs = event.timeMs
-      held.delete(event.note)
+      held[event.note] = undefined
     }
-    if (isNoteOn(event)) {
+    if (press[index]) {
       const note: PlayedNote = { midi: event.note, onMs: event.timeMs, offMs: null, velocity: event.velocity ?? null, eventIndex: index }
       notes.push(note)
-      held.set(event.note, note)
+      held[event.note] = note
     }
   }
   return notes
