@@ -1,10 +1,10 @@
 import { useLocalStorage } from '@vueuse/core'
 import { z } from 'zod'
 import { AttemptInput, InputDevice } from '#shared/types/attempt'
-import type { PedalEvent, PlayedEvent } from '#shared/types/attempt'
 import { HandSize } from '#shared/types/drill'
 import type { LiveNoteEvent, LivePedalEvent } from '#shared/types/live'
 import { clampTempo } from '#shared/utils/tempo'
+import { toPedalEvents, toPlayedEvents } from '#shared/utils/timeline'
 import { COMPUTER_KEYS_OCTAVE, COMPUTER_KEYS_VELOCITY } from '~/composables/useComputerKeys'
 
 // Each field falls back on its own, so one bad value left by an older release keeps the rest.
@@ -45,44 +45,6 @@ export interface CurrentAttempt {
 
 const MAX_EVENTS = 20_000
 const MAX_PEDAL_EVENTS = 5_000
-
-/** How far before beat 0 notes still count: the count-in's last beat. */
-function countInGraceMs(tempoBpm: number): number {
-  return 60_000 / tempoBpm
-}
-
-/** Rounds to a tenth of a millisecond: finer than any player, and keeps the saved copy small. */
-function relativeMs(timeStampMs: number, timeZeroMs: number): number {
-  return Math.round((timeStampMs - timeZeroMs) * 10) / 10
-}
-
-/**
- * Places the raw notes on the attempt's time line. Notes from before the count-in's last beat
- * are the student settling their hand, not the drill, so they are left out, and so is the
- * release of any note they started.
- */
-export function toPlayedEvents(notes: readonly LiveNoteEvent[], timeZeroMs: number, tempoBpm: number): PlayedEvent[] {
-  const earliestMs = -countInGraceMs(tempoBpm)
-  const dropped = new Set<number>()
-  const events: PlayedEvent[] = []
-  for (const n of notes) {
-    const timeMs = relativeMs(n.timeStampMs, timeZeroMs)
-    if (n.on) {
-      if (timeMs < earliestMs) {
-        dropped.add(n.note)
-        continue
-      }
-      dropped.delete(n.note)
-    }
-    else if (dropped.delete(n.note)) {
-      continue
-    }
-    if (timeMs < earliestMs) continue
-    events.push({ note: n.note, on: n.on, velocity: n.velocity, timeMs })
-  }
-  // Inputs are merged as they arrive; a MIDI message can be stamped slightly before a key event.
-  return events.sort((a, b) => a.timeMs - b.timeMs)
-}
 
 export const usePracticeStore = defineStore('practice', () => {
   const settings = useLocalStorage<PracticeSettings>('evenhand.practice-settings', PracticeSettings.parse({}), {
@@ -183,13 +145,10 @@ export const usePracticeStore = defineStore('practice', () => {
     if (!attempt) throw new Error('No attempt is being played')
     const { timeZeroMs, ...meta } = attempt
     if (timeZeroMs === null) throw new Error('The attempt has no time zero yet: call setTimeZero() when the count-in is scheduled')
-    const pedalEvents: PedalEvent[] = pedal
-      .map(p => ({ down: p.down, timeMs: relativeMs(p.timeStampMs, timeZeroMs) }))
-      .filter(p => p.timeMs >= -countInGraceMs(attempt.tempoBpm))
     const parsed = AttemptInput.safeParse({
       ...meta,
-      events: toPlayedEvents(notes, timeZeroMs, attempt.tempoBpm),
-      pedal: pedalEvents,
+      events: toPlayedEvents(notes, timeZeroMs, meta.tempoBpm),
+      pedal: toPedalEvents(pedal, timeZeroMs, meta.tempoBpm),
     })
     // The attempt stays current on failure, so what was played is still there to inspect.
     if (!parsed.success) throw new Error(`The attempt cannot be saved: ${z.prettifyError(parsed.error)}`)

@@ -2,7 +2,7 @@ import { beforeEach, describe, expect, it } from 'vitest'
 import { createPinia, setActivePinia } from 'pinia'
 import { AttemptInput } from '#shared/types/attempt'
 import type { LiveNoteEvent } from '#shared/types/live'
-import { toPlayedEvents, usePracticeStore } from '~/stores/practice'
+import { usePracticeStore } from '~/stores/practice'
 
 const drill = { drillId: 7, drillVersion: 2, assignmentId: 11 }
 
@@ -129,26 +129,5 @@ describe('the current attempt', () => {
     expect(() => practice.begin({ ...drill, drillId: -1 })).toThrow(/drillId: expected a drill id/)
     practice.begin(drill)
     expect(() => practice.finish()).toThrow('The attempt has no time zero yet')
-  })
-})
-
-describe('toPlayedEvents', () => {
-  it('keeps the count-in’s last beat and drops what came before it, releases included', () => {
-    // At 60 bpm a beat is 1000 ms: -1500 is in the beat before the last, -800 in the last one.
-    const events = toPlayedEvents([
-      note(50, true, 3500),
-      note(52, true, 4200),
-      note(50, false, 4300),
-      note(52, false, 5100),
-    ], 5000, 60)
-    expect(events).toEqual([
-      { note: 52, on: true, velocity: 80, timeMs: -800 },
-      { note: 52, on: false, velocity: 0, timeMs: 100 },
-    ])
-  })
-
-  it('puts events from different inputs in time order', () => {
-    const events = toPlayedEvents([note(60, true, 1010), note(62, true, 1005)], 1000, 100)
-    expect(events.map(e => e.note)).toEqual([62, 60])
   })
 })
