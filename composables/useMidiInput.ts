@@ -149,13 +149,7 @@ function createMidiInput(): MidiInput {
     status.value = attached ? 'ready' : 'no-devices'
   }
 
-  /** Asks the browser for MIDI access (it may prompt) and starts listening. Client only. */
-  async function enable(): Promise<MidiStatus> {
-    if (import.meta.server || midi || status.value === 'enabling') return status.value
-    if (typeof navigator === 'undefined' || typeof navigator.requestMIDIAccess !== 'function') {
-      status.value = 'unsupported'
-      return status.value
-    }
+  async function start(): Promise<MidiStatus> {
     status.value = 'enabling'
     const { WebMidi } = await import('webmidi')
     await released
@@ -172,6 +166,24 @@ function createMidiInput(): MidiInput {
     WebMidi.addListener('disconnected', refresh)
     refresh()
     return status.value
+  }
+
+  let starting: Promise<MidiStatus> | null = null
+
+  /**
+   * Asks the browser for MIDI access (it may prompt) and starts listening; client only. Calls
+   * while one is under way share it; after `denied` or `error`, a new call asks again.
+   */
+  function enable(): Promise<MidiStatus> {
+    if (import.meta.server || midi) return Promise.resolve(status.value)
+    if (typeof navigator === 'undefined' || typeof navigator.requestMIDIAccess !== 'function') {
+      status.value = 'unsupported'
+      return Promise.resolve(status.value)
+    }
+    starting ??= start().finally(() => {
+      starting = null
+    })
+    return starting
   }
 
   /** Listens to the input with this id from now on, and remembers it for the next visit. */

@@ -40,8 +40,9 @@ export class FakeMidiAccess {
     for (const input of inputs) this.inputs.set(input.id, input)
   }
 
-  unplug(input: FakeMidiInput): void {
-    this.inputs.delete(input.id)
+  /** Some browsers drop a vanished port from `inputs`, others keep it there as disconnected. */
+  unplug(input: FakeMidiInput, { keepListed = false } = {}): void {
+    if (!keepListed) this.inputs.delete(input.id)
     input.state = 'disconnected'
     // Chrome reports an open port that vanishes as disconnected with its connection pending.
     input.connection = 'pending'

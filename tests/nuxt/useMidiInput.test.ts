@@ -124,6 +124,34 @@ describe('useMidiInput', () => {
     expect(notes).toHaveLength(1)
   })
 
+  it('handles a browser that keeps an unplugged port listed as disconnected', async () => {
+    const first = new FakeMidiInput('in-a', 'Practice Keys')
+    const chosen = new FakeMidiInput('in-b', 'Grand Controller')
+    const access = new FakeMidiAccess([first, chosen])
+    const midi = start(async () => access)
+    await midi.enable()
+    midi.select('in-b')
+
+    access.unplug(chosen, { keepListed: true })
+    await nextTick()
+    expect(midi.inputs.value.map(i => [i.id, i.state])).toEqual([['in-a', 'connected'], ['in-b', 'disconnected']])
+    expect(midi.selected.value?.id).toBe('in-a')
+
+    access.plugIn(chosen)
+    await nextTick()
+    expect(midi.selected.value?.id).toBe('in-b')
+  })
+
+  it('asks the browser once when enable() is called twice at once', async () => {
+    let asked = 0
+    const midi = start(async () => {
+      asked++
+      return new FakeMidiAccess([new FakeMidiInput('in-1', 'Stage Piano')])
+    })
+    expect(await Promise.all([midi.enable(), midi.enable()])).toEqual(['ready', 'ready'])
+    expect(asked).toBe(1)
+  })
+
   it('re-selects the remembered device on the next visit', async () => {
     const devices = (): FakeMidiInput[] => [new FakeMidiInput('in-a', 'Practice Keys'), new FakeMidiInput('in-b', 'Grand Controller')]
     const visit = start(async () => new FakeMidiAccess(devices()))
