@@ -109,7 +109,7 @@ function accentsOf(notes: PerformedNote[]): number[] {
   const mean = v.reduce((a, b) => a + b, 0) / Math.max(1, v.length)
   const sd = Math.sqrt(v.reduce((a, b) => a + (b - mean) ** 2, 0) / Math.max(1, v.length))
   // With (almost) no spread in loudness there is nothing to learn about a heavy thumb.
-  return v.map(x => (sd < 1 ? 0.5 : logistic(((x - mean) / sd - 1) / 0.3)))
+  return v.map(x => (sd < 1 ? 0.5 : logistic(((x - mean) / sd - 0.5) / 0.25)))
 }
 
 function moveLogLikelihood(move: Move, t: Timing): number {
