@@ -50,7 +50,9 @@ ensure_session_password() {
 # ensure_build OUT [BUILD_DIR]: build into OUT unless the sources are unchanged since the last build there.
 ensure_build() {
   local out="$1" build_dir="${2:-}" stamp="$1/.evenhand-source-hash" want
-  want="$(cd "$ROOT" && git ls-files -co --exclude-standard -- app.vue pages components composables stores server shared layouts middleware plugins assets utils public nuxt.config.ts tailwind.config.ts package-lock.json 2>/dev/null | sort | xargs -d '\n' sha256sum 2>/dev/null | sha256sum | cut -d' ' -f1)"
+  # A file git still lists but the work tree has lost is skipped, not fatal.
+  want="$(cd "$ROOT" && git ls-files -co --exclude-standard -- app.vue pages components composables stores server shared layouts middleware plugins assets utils public nuxt.config.ts tailwind.config.ts package-lock.json \
+    | sort | while read -r f; do if [ -f "$f" ]; then sha256sum "$f"; fi; done | sha256sum | cut -d' ' -f1)"
   if [ ! -f "$out/server/index.mjs" ] || [ ! -f "$stamp" ] || [ "$(cat "$stamp")" != "$want" ]; then
     log "building the app into ${out#"$ROOT"/}"
     (cd "$ROOT" && EVENHAND_OUTPUT_DIR="$out" EVENHAND_BUILD_DIR="$build_dir" node_modules/.bin/nuxi build >"$DATA/build.log" 2>&1) \
