@@ -1,4 +1,5 @@
 import { useLocalStorage } from '@vueuse/core'
+import { skipHydrate } from 'pinia'
 import { z } from 'zod'
 import { AttemptInput, InputDevice } from '#shared/types/attempt'
 import { HandSize } from '#shared/types/drill'
@@ -164,19 +165,22 @@ export const usePracticeStore = defineStore('practice', () => {
     eventCount.value = 0
   }
 
+  // Read-only views are getters (computed), not state: Pinia would try to write server-rendered
+  // values into readonly refs on hydration. The stored settings are this browser's, so the
+  // server's defaults must not replace them either (skipHydrate).
   return {
-    settings: readonly(settings),
+    settings: skipHydrate(settings),
     inputDevice,
     soundOn,
     metronomeVolume,
     handSize,
     keyMapOctave,
     computerKeysVelocity,
-    targetBpm: readonly(targetBpm),
+    targetBpm: computed(() => targetBpm.value),
     tempoBpm,
     setTargetTempo,
-    current: readonly(current),
-    eventCount: readonly(eventCount),
+    current: computed(() => current.value),
+    eventCount: computed(() => eventCount.value),
     begin,
     setTimeZero,
     record,
