@@ -47,15 +47,39 @@ export function sequencePeriod(keys: number[]): number {
   return 0
 }
 
-/** The finger most often used at each place of the period (ties to the lower finger). */
-function sharedPattern(fingers: Finger[], period: number): Finger[] {
-  return Array.from({ length: period }, (_, j) => {
-    const counts = [0, 0, 0, 0, 0, 0]
-    for (let i = j; i < fingers.length; i += period) counts[fingers[i]!]!++
-    let best = 1
-    for (let f = 2; f <= 5; f++) if (counts[f]! > counts[best]!) best = f
-    return best as Finger
+/**
+ * A scale-like run: every step goes to the neighbouring pitch class of the line's own set (a scale of
+ * five to twelve notes) and the line covers an octave. Its phases are the pitch classes, because a
+ * scale fingering is one finger per pitch class (common practice: the printed tables give it so, the
+ * same up and down), or null.
+ */
+export function scalePhases(keys: number[]): number[] | null {
+  const classes = [...new Set(keys.map(k => ((k % 12) + 12) % 12))].sort((a, b) => a - b)
+  if (classes.length < 5 || Math.max(...keys) - Math.min(...keys) < 12) return null
+  const rank = new Map(classes.map((c, i) => [c, i]))
+  const phases = keys.map(k => rank.get(((k % 12) + 12) % 12)!)
+  for (let i = 1; i < keys.length; i++) {
+    const step = keys[i]! - keys[i - 1]!
+    const moved = (phases[i]! - phases[i - 1]! + classes.length) % classes.length
+    const neighbour = (step > 0 && moved === 1) || (step < 0 && moved === classes.length - 1)
+    if (!neighbour || Math.abs(step) > 2) return null
+  }
+  return phases
+}
+
+/** The finger most often used at each phase (ties to the lower finger). */
+function sharedPattern(fingers: Finger[], phases: number[]): Map<number, Finger> {
+  const counts = new Map<number, number[]>()
+  phases.forEach((phase, i) => {
+    const c = counts.get(phase) ?? [0, 0, 0, 0, 0, 0]
+    c[fingers[i]!]!++
+    counts.set(phase, c)
   })
+  return new Map([...counts].map(([phase, c]) => {
+    let best = 1
+    for (let f = 2; f <= 5; f++) if (c[f]! > c[best]!) best = f
+    return [phase, best as Finger]
+  }))
 }
 
 /** The same lattice with a cost on each single-note option that differs from the preferred finger. */
@@ -88,13 +112,15 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
   const keys = notes.map(item => itemKeys(hand, item))
   const lattice = lineLattice(keys, costModel(handSize))
   let { path } = cheapestPath(lattice)
-  // Repeated shapes: a drill sequence is taught with one fingering for every group, so the free
-  // optimum's most common finger at each place of the group becomes a soft preference.
-  const singles = keys.every(k => k.length === 1)
-  const period = singles ? sequencePeriod(keys.map(k => k[0]!)) : 0
-  if (period > 0) {
-    const pattern = sharedPattern(path.map(o => (o + 1) as Finger), period)
-    path = cheapestPath(withPreference(lattice, keys.map((_, i) => pattern[i % period]!))).path
+  // Repeated shapes: a drill sequence is taught with one fingering for every group, and a scale with
+  // one finger per pitch class, so the free optimum's most common finger at each place of the group
+  // (or pitch class) becomes a soft preference (a second search with CONSISTENCY_POINTS per deviation).
+  const line = keys.every(k => k.length === 1) ? keys.map(k => k[0]!) : null
+  const period = line ? sequencePeriod(line) : 0
+  const phases = line ? scalePhases(line) ?? (period > 0 ? line.map((_, i) => i % period) : null) : null
+  if (phases) {
+    const pattern = sharedPattern(path.map(o => (o + 1) as Finger), phases)
+    path = cheapestPath(withPreference(lattice, phases.map(phase => pattern.get(phase)!))).path
   }
   const fingers = fingersForItems(hand, notes, chosenTouches(lattice, path))
   const positions = positionStarts(hand, notes, fingers, handSize)

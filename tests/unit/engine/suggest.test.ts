@@ -1,23 +1,23 @@
 import { describe, expect, it } from 'vitest'
 import { scoreFingering } from '../../../shared/engine/ergonomics'
-import { sequencePeriod, suggestFingering } from '../../../shared/engine/suggest'
+import { scalePhases, sequencePeriod, suggestFingering } from '../../../shared/engine/suggest'
 import type { Finger } from '../../../shared/engine/types'
 import { MAJOR_SCALE_FINGERINGS, scaleCase } from './fixtures/scales'
 
 /**
  * Cases where the model's cheapest fingering differs from the printed one (see fixtures/scales.ts for
  * the table's source). Kept explicit so that a model change that fixes or breaks one shows here.
- * Most misses are the model drifting between equally cheap patterns from one octave to the next, or
- * preferring to cross under 3 where the tables cross under 4 (the left hand's two-octave white keys).
+ * Most misses are right-hand scales that start on a black key, where the model starts on a different
+ * finger (2 3 1 for Ab, Eb, Bb, where the books start 3 4 1, 3 1 2, 4 1 2), or two-octave left-hand
+ * scales where it crosses 3 over the thumb where the tables cross 4.
  */
 const KNOWN_MISSES = new Set([
-  'C left 2', 'G left 2', 'D left 2', 'A left 2', 'E left 2', 'F left 2',
-  'F# right 1', 'F# right 2', 'F# left 1', 'F# left 2',
+  'C left 2', 'A left 2', 'F left 2',
+  'F# right 1', 'F# right 2',
   'Db right 1',
   'Ab right 1', 'Ab right 2',
   'Eb right 1', 'Eb right 2',
-  'Bb right 1', 'Bb right 2', 'Bb left 1', 'Bb left 2',
-])
+  'Bb right 1', 'Bb right 2', 'Bb left 1', 'Bb left 2',])
 
 const SCALE_CASES = MAJOR_SCALE_FINGERINGS.flatMap(scale =>
   (['right', 'left'] as const).flatMap(hand => ([1, 2] as const).map(octaves => ({ scale, hand, octaves, name: `${scale.key} ${hand} ${octaves}` }))))
@@ -39,8 +39,8 @@ describe('major scales, up and down, against the printed tables', () => {
     expect(printedFingerings(c)).not.toContainEqual(suggestFingering({ hand: c.hand, notes }).fingers)
   })
 
-  it('reproduces 29 of the 48 cases', () => {
-    expect(SCALE_CASES.length - KNOWN_MISSES.size).toBe(29)
+  it('reproduces 34 of the 48 cases', () => {
+    expect(SCALE_CASES.length - KNOWN_MISSES.size).toBe(34)
   })
 })
 
@@ -89,12 +89,10 @@ describe('suggestFingering', () => {
 
 describe('repeated shapes', () => {
   // A rising sequence of four-note groups on white keys: C D E C, D E F D, E F G E, ...
-  const groups = [0, 1, 2, 3, 4].map(g => [60, 62, 64, 65, 67, 69, 71, 72, 74][g]!)
   const WHITE = [60, 62, 64, 65, 67, 69, 71, 72, 74, 76, 77]
   const sequence = [0, 1, 2, 3, 4].flatMap(g => [WHITE[g]!, WHITE[g + 1]!, WHITE[g + 2]!, WHITE[g]!])
 
   it('finds the period of a sequence and none in a plain white-key run', () => {
-    expect(groups).toHaveLength(5)
     expect(sequencePeriod(sequence)).toBe(4)
     expect(sequencePeriod(WHITE)).toBe(0)
   })
@@ -103,6 +101,12 @@ describe('repeated shapes', () => {
     const fingers = suggestFingering({ hand: 'right', notes: sequence }).fingers
     const firstGroup = fingers.slice(0, 4)
     for (let g = 1; g < 5; g++) expect(fingers.slice(4 * g, 4 * g + 4)).toEqual(firstGroup)
+  })
+
+  it('reads a scale run as one finger per pitch class, but not an arpeggio', () => {
+    const up = [60, 62, 64, 65, 67, 69, 71, 72]
+    expect(scalePhases([...up, ...up.slice(0, -1).reverse()])).toEqual([0, 1, 2, 3, 4, 5, 6, 0, 6, 5, 4, 3, 2, 1, 0])
+    expect(scalePhases([60, 64, 67, 72, 76, 79, 84])).toBeNull()
   })
 
   it('notices when the black/white pattern changes', () => {
