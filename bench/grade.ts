@@ -1,6 +1,8 @@
 // How long grading takes for long attempts: a seeded, slightly uneven performance of a
 // two-octave C-major scale repeated, with a wrong, a missed and an extra note every 50.
 import { gradeAttempt } from '../shared/engine/grade'
+import { inferFingering } from '../shared/engine/infer'
+import { pairNoteEvents } from '../shared/engine/performance'
 import { nameFromMidi } from '../shared/engine/pitch'
 import type { DrillMusic, DrillNote, Finger, PlayedEvent } from '../shared/engine/types'
 
@@ -51,11 +53,13 @@ function timeMs(run: () => void, repeats: number): number {
 }
 
 export function benchGrade(): void {
-  console.log('grading (median of runs, after one warm-up)')
+  console.log('grading (median of runs, after one warm-up; "inference" is the part spent in inferFingering alone)')
   for (const [count, repeats] of [[1_000, 21], [10_000, 5], [100_000, 3]] as const) {
     const { drill, events } = benchAttempt(count)
+    const performed = pairNoteEvents(events).map(n => ({ midi: n.midi, onMs: n.onMs, offMs: n.offMs, velocity: n.velocity ?? 64 }))
     gradeAttempt(drill, events)
     const ms = timeMs(() => gradeAttempt(drill, events), repeats)
-    console.log(`  ${String(count).padStart(7)} notes: ${ms.toFixed(2).padStart(9)} ms  ${Math.round(count / (ms / 1000)).toLocaleString('en-GB').padStart(12)} notes/s`)
+    const inferMs = timeMs(() => inferFingering('right', performed), repeats)
+    console.log(`  ${String(count).padStart(7)} notes: ${ms.toFixed(2).padStart(9)} ms  ${Math.round(count / (ms / 1000)).toLocaleString('en-GB').padStart(12)} notes/s  (inference ${inferMs.toFixed(2)} ms)`)
   }
 }
