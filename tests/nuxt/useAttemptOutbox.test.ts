@@ -94,6 +94,24 @@ describe('useAttemptOutbox', () => {
     expect(received).toHaveLength(2)
   })
 
+  it('tries again by itself after a back-off', async () => {
+    vi.useFakeTimers({ toFake: ['setTimeout', 'clearTimeout', 'Date'] })
+    try {
+      respond = () => ({ status: 502 })
+      const outbox = visit()
+      await outbox.save(attempt(A))
+      respond = () => ({ status: 201 })
+      await vi.advanceTimersByTimeAsync(1_500)
+      expect(received).toHaveLength(1)
+      await vi.advanceTimersByTimeAsync(600)
+      await vi.waitFor(() => expect(outbox.pending.value).toEqual([]))
+      expect(received).toHaveLength(2)
+    }
+    finally {
+      vi.useRealTimers()
+    }
+  })
+
   it('keeps an attempt through a network failure and a reload, and sends it on the next visit', async () => {
     vi.stubGlobal('$fetch', vi.fn().mockRejectedValue(new TypeError('Failed to fetch')))
     const offline = await visit().save(attempt(A))
