@@ -107,7 +107,13 @@ export function useMetronome() {
     running.value = false
   }
 
-  if (getCurrentScope()) onScopeDispose(stop)
+  if (getCurrentScope()) {
+    onScopeDispose(() => {
+      stop()
+      output?.dispose()
+      output = null
+    })
+  }
 
   return { volume, muted, running: readonly(running), start, stop }
 }
