@@ -46,6 +46,13 @@ describe('alignNotes', () => {
     expect(a.counts.correct).toBe(2)
   })
 
+  it('forgives a rushed note that lands within the chord window of the one before', () => {
+    const played: AlignPlayed[] = [{ midi: 64, onMs: 0 }, { midi: 62, onMs: 300 }, { midi: 60, onMs: 320 }, { midi: 59, onMs: 900 }]
+    const a = alignNotes(line([64, 62, 60, 59]), played)
+    expect(a.counts).toEqual({ correct: 4, wrong: 0, extra: 0, missed: 0 })
+    expect(a.match).toEqual([0, 1, 2, 3])
+  })
+
   it('finds the whole drill after a false start', () => {
     const played = play([...SCALE.slice(0, 3), ...SCALE])
     const a = alignNotes(line(SCALE), played)
