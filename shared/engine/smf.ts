@@ -25,6 +25,11 @@ export interface SmfImportOptions {
   hand?: Hand
   /** Which tracks to read (indices into the tracks that hold notes), when a file has more than two. */
   tracks?: number[]
+  /**
+   * Snap onsets and lengths to this grid in beats (0.25 for semiquavers), for files recorded
+   * from a keyboard rather than written in a sequencer; no snapping when absent.
+   */
+  quantize?: number
 }
 
 function parse(bytes: Uint8Array): Midi {
@@ -63,11 +68,14 @@ export function importSmf(bytes: Uint8Array, options: SmfImportOptions = {}): Im
     ? (meanPitch(0) >= meanPitch(1) ? ['right', 'left'] : ['left', 'right'])
     : [options.hand ?? 'right']
 
+  const grid = options.quantize
+  if (grid !== undefined && !(grid > 0 && grid <= 4)) throw new ImportError(`A quantize grid of ${grid} beats is not usable: choose more than 0 and at most 4`)
+  const snap = (beats: number): number => roundBeat(grid ? Math.round(beats / grid) * grid : beats)
   const notes: DrillNote[] = chosen.flatMap((track, k) => track.notes.map(n => ({
     pitch: nameFromMidi(n.midi, spelling),
-    beat: roundBeat(n.ticks / ppq),
-    // A zero-length note (on and off on one tick) still sounds: give it one tick.
-    length: roundBeat(Math.max(n.durationTicks, 1) / ppq),
+    beat: snap(n.ticks / ppq),
+    // A zero-length note (on and off on one tick) still sounds: give it one tick, or one grid step.
+    length: Math.max(snap(Math.max(n.durationTicks, 1) / ppq), grid ?? 0, 1 / ppq),
     ...(chosen.length === 2 ? { hand: hands[k]! } : {}),
   })))
   const signature = midi.header.timeSignatures[0]?.timeSignature

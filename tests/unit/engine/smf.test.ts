@@ -139,6 +139,33 @@ describe('importSmf', () => {
       .toEqual(drill.notes.map(n => [sortKey(n), n.hand, n.length.toFixed(3)]).sort())
   })
 
+  // SMF 1.0 format 0: one track carrying both channels (status 0x90 = channel 1, 0x91 = channel 2).
+  it('splits a format-0 file by channel into two hands', () => {
+    const events = [0x00, 0x90, 0x48, 0x40, 0x00, 0x91, 0x30, 0x40, 0x83, 0x60, 0x80, 0x48, 0x00, 0x00, 0x81, 0x30, 0x00, 0x00, 0xFF, 0x2F, 0x00]
+    const bytes = new Uint8Array([
+      0x4D, 0x54, 0x68, 0x64, 0, 0, 0, 6, 0, 0, 0, 1, 0x01, 0xE0,
+      0x4D, 0x54, 0x72, 0x6B, 0, 0, 0, events.length, ...events,
+    ])
+    const drill = importSmf(bytes)
+    expect(drill.hand).toBe('both')
+    expect(drill.tempoBpm).toBe(120)
+    expect(drill.notes).toEqual([
+      { pitch: 'C3', beat: 0, length: 1, hand: 'left' },
+      { pitch: 'C5', beat: 0, length: 1, hand: 'right' },
+    ])
+  })
+
+  it('snaps a recorded performance to a grid when asked', () => {
+    const recorded: DrillMusic = { hand: 'right', tempoBpm: 100, notes: [
+      { pitch: 'C4', beat: 0.02, length: 0.43 },
+      { pitch: 'D4', beat: 0.49, length: 0.05 },
+      { pitch: 'E4', beat: 1.04, length: 0.47 },
+    ] }
+    const drill = importSmf(exportDrillSmf(recorded), { quantize: 0.5 })
+    expect(drill.notes.map(n => [n.beat, n.length])).toEqual([[0, 0.5], [0.5, 0.5], [1, 0.5]])
+    expect(() => importSmf(exportDrillSmf(recorded), { quantize: 0 })).toThrow(/quantize grid/)
+  })
+
   it.each([
     ['random bytes', new Uint8Array([1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15]), /not a Standard MIDI File/],
     ['a truncated file', file.subarray(0, 30), /damaged/],
