@@ -1,0 +1,94 @@
+import { Note } from 'tonal'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { DrillNote } from '../../shared/types/drill'
+import { openBrowser, signInAs } from '../support/browser'
+import type { BrowserSession } from '../support/browser'
+import { FAKE_MIDI_INPUT_NAME, fakeMidiScript } from '../support/fake-midi'
+import { closeTestDb, testDb } from '../support/server'
+
+let browser: BrowserSession
+let drill: { id: number, notes: DrillNote[], tempo: number }
+let assignmentId: number
+let studentId: number
+
+beforeAll(async () => {
+  const db = testDb()
+  const row = await db('drills').where({ title: 'Five-finger pattern in C, right hand' }).first('id', 'notes', 'tempo_bpm')
+  drill = { id: Number(row.id), notes: typeof row.notes === 'string' ? JSON.parse(row.notes) : row.notes, tempo: row.tempo_bpm }
+  studentId = Number((await db('users').where({ email: 'student@evenhand.test' }).first('id')).id)
+  assignmentId = Number((await db('assignments as a').join('drill_set_items as i', 'i.drill_set_id', 'a.drill_set_id')
+    .join('classes as c', 'c.id', 'a.class_id').where('i.drill_id', drill.id).where('c.name', 'Tuesday Starters').first('a.id')).id)
+  browser = await openBrowser({ initScript: fakeMidiScript })
+  await signInAs(browser.page, 'student@evenhand.test')
+  await browser.page.waitForURL(/\/student$/)
+})
+afterAll(async () => {
+  await browser?.close()
+  await closeTestDb()
+})
+
+/** The drill's notes as fake MIDI presses at the page's practice tempo, evenly and legato. */
+function performance(bpm: number): { note: number, velocity: number, atMs: number, holdMs: number }[] {
+  const beatMs = 60_000 / bpm
+  return drill.notes.map(n => ({ note: Note.midi(n.pitch)!, velocity: 72, atMs: n.beat * beatMs, holdMs: n.length * beatMs * 0.95 }))
+}
+
+async function openDrillAndPlay(): Promise<void> {
+  const { page } = browser
+  await page.goto(`/practice/${drill.id}?assignment=${assignmentId}`)
+  await page.getByTestId('drill-title').waitFor()
+  await expect.poll(() => page.locator('#midi-input option').allTextContents()).toContain(FAKE_MIDI_INPUT_NAME)
+  await page.locator('#midi-input').selectOption({ label: FAKE_MIDI_INPUT_NAME })
+  const bpm = Number((await page.locator('#tempo').inputValue()))
+  await page.getByTestId('start').click()
+  await page.getByTestId('phase').filter({ hasText: 'Playing' }).waitFor({ timeout: 15_000 })
+  await page.evaluate(notes => (window as unknown as { __fakeMidi: { play: (n: unknown) => Promise<void> } }).__fakeMidi.play(notes), performance(bpm))
+  await page.getByTestId('attempt-report').waitFor({ timeout: 15_000 })
+}
+
+async function latestAttempt(): Promise<{ id: string, score: number, events: unknown[] } | undefined> {
+  const row = await testDb()('attempts').where({ student_id: studentId, drill_id: drill.id }).orderBy('created_at', 'desc').first()
+  return row && { id: row.id, score: row.score, events: typeof row.events === 'string' ? JSON.parse(row.events) : row.events }
+}
+
+describe('practising an assigned drill on a MIDI keyboard', () => {
+  it('shows the grade and stores the raw events with the server\'s score', async () => {
+    const before = await latestAttempt()
+    await openDrillAndPlay()
+    const { page } = browser
+    await page.getByTestId('save-state').filter({ hasText: 'saved' }).waitFor()
+    expect(await page.getByTestId('attempt-accuracy').textContent()).toContain(`${drill.notes.length} / ${drill.notes.length} right`)
+    const shown = Number(await page.getByTestId('attempt-score').textContent())
+    const stored = await latestAttempt()
+    expect(stored?.id).not.toBe(before?.id)
+    expect(stored!.events).toHaveLength(drill.notes.length * 2)
+    expect(stored!.score).toBe(shown)
+    expect(shown).toBeGreaterThan(60)
+
+    // The same attempt sent again (a retry after a lost answer) is stored once.
+    const attempt = await testDb()('attempts').where({ id: stored!.id }).first()
+    const status = await page.evaluate(async (body) => {
+      const res = await fetch('/api/attempts', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) })
+      return res.status
+    }, {
+      id: attempt.id, drillId: drill.id, drillVersion: attempt.drill_version, assignmentId, startedAt: new Date(attempt.started_at).toISOString(),
+      tempoBpm: Number(attempt.tempo_bpm), inputDevice: attempt.input_device, events: stored!.events,
+    })
+    expect(status).toBe(200)
+    expect(await testDb()('attempts').where({ id: stored!.id }).count({ n: '*' })).toEqual([{ n: 1 }])
+  })
+
+  it('keeps an attempt played while the server is unreachable and saves it when it is back', async () => {
+    const { page, context } = browser
+    const before = await latestAttempt()
+    await context.route('**/api/attempts', route => route.abort('connectionrefused'))
+    await openDrillAndPlay()
+    await page.getByTestId('save-state').filter({ hasText: 'waiting to save' }).waitFor()
+    expect((await latestAttempt())?.id).toBe(before?.id)
+
+    await context.unroute('**/api/attempts')
+    await page.reload()
+    await expect.poll(async () => (await latestAttempt())?.id, { timeout: 15_000 }).not.toBe(before?.id)
+    expect((await latestAttempt())!.events).toHaveLength(drill.notes.length * 2)
+  })
+})
