@@ -4,7 +4,8 @@
 // played notes by onset, with notes struck within a small window (a chord) re-ordered by pitch.
 // The order inside a chord is therefore free, while the order of everything else counts. Two
 // single notes struck within that window (a rushed note) may then sit in the wrong order, so
-// the programme may also match such a pair crosswise at no cost.
+// the programme may also match such a pair crosswise at no cost, as it may two notes the drill
+// puts on one beat that were struck up to HANDS_TOGETHER_MS apart (hands not quite together).
 // Costs: same pitch 0, a wrong pitch in the drill note's place SUBSTITUTE, a missed or an extra
 // note GAP each. SUBSTITUTE < 2 × GAP makes a wrong note cheaper than "missed + extra", and
 // SUBSTITUTE > GAP lets one gap buy back a run of matches after a skipped or added note.
@@ -34,6 +35,11 @@ export interface AlignOptions {
 
 /** Same window the inference uses for chords, so both modules see the same groups. */
 export const CHORD_WINDOW_MS = 30
+/**
+ * Two notes the drill writes on one beat (often one in each hand) may be struck this far apart
+ * and still count in either order: hands "together" drift apart by tens of ms (from memory).
+ */
+const HANDS_TOGETHER_MS = 100
 
 const SUBSTITUTE = 3
 const GAP = 2
@@ -72,11 +78,16 @@ function playedOrder(played: readonly AlignPlayed[], windowMs: number): { order:
 
 export function alignNotes(targets: readonly AlignTarget[], played: readonly AlignPlayed[], options: AlignOptions = {}): Alignment {
   const ti = targetOrder(targets)
-  const { order: pi, grouped: swapped } = playedOrder(played, options.chordWindowMs ?? CHORD_WINDOW_MS)
+  const { order: pi, grouped } = playedOrder(played, options.chordWindowMs ?? CHORD_WINDOW_MS)
   const n = ti.length
   const m = pi.length
   const tMidi = Int32Array.from(ti, i => targets[i]!.midi)
   const pMidi = Int32Array.from(pi, i => played[i]!.midi)
+  const tBeat = Float64Array.from(ti, i => targets[i]!.beat)
+  const pOn = Float64Array.from(pi, i => played[i]!.onMs)
+  /** Whether drill notes i-2, i-1 (1-based i) may be matched crosswise with played notes j-2, j-1. */
+  const mayCross = (i: number, j: number): boolean => grouped[j - 1] === 1
+    || (tBeat[i - 1] === tBeat[i - 2] && pOn[j - 1]! - pOn[j - 2]! <= HANDS_TOGETHER_MS)
 
   const rows = n + 1
   const width = Math.max(1, Math.min(Math.abs(n - m) + BAND_MARGIN, Math.floor(MAX_CELLS / rows / 2)))
@@ -123,7 +134,7 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
             move = LEFT
           }
         }
-        if (swapped[j - 1] && before !== -1 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before) {
+        if (before !== -1 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before && mayCross(i, j)) {
           const crossed = at(i - 2, j - 2)
           if (crossed < best) {
             best = crossed

@@ -53,6 +53,15 @@ describe('alignNotes', () => {
     expect(a.match).toEqual([0, 1, 2, 3])
   })
 
+  it('lets the hands of a both-hands beat arrive up to 100 ms apart in either order', () => {
+    // Drill: C3 + C5 on beat 0, D3 + D5 on beat 1; the right hand leads by 60 ms on beat 0.
+    const targets: AlignTarget[] = [{ midi: 48, beat: 0 }, { midi: 72, beat: 0 }, { midi: 50, beat: 1 }, { midi: 74, beat: 1 }]
+    const played: AlignPlayed[] = [{ midi: 72, onMs: 0 }, { midi: 48, onMs: 60 }, { midi: 50, onMs: 600 }, { midi: 74, onMs: 640 }]
+    expect(alignNotes(targets, played).counts.correct).toBe(4)
+    const late: AlignPlayed[] = [{ midi: 72, onMs: 0 }, { midi: 48, onMs: 250 }, { midi: 50, onMs: 600 }, { midi: 74, onMs: 640 }]
+    expect(alignNotes(targets, late).counts.correct).toBe(3)
+  })
+
   it('finds the whole drill after a false start', () => {
     const played = play([...SCALE.slice(0, 3), ...SCALE])
     const a = alignNotes(line(SCALE), played)
