@@ -11,6 +11,12 @@ function engine(command: string, input: string): { status: number | null, stdout
 }
 
 describe('scripts/engine.ts', () => {
+  it('runs through the npm script, printing JSON only', () => {
+    const run = spawnSync('npm', ['run', '-s', 'engine', '--', 'suggest'], { cwd: root, input: '{"hand":"left","notes":["C3","B2","A2"]}', encoding: 'utf8' })
+    expect(run.status).toBe(0)
+    expect(JSON.parse(run.stdout).fingers).toHaveLength(3)
+  })
+
   it('suggest: fingers a C-major line given as names, numbers and a chord', () => {
     const run = engine('suggest', JSON.stringify({ hand: 'right', notes: ['C4', 'D4', 64, ['C4', 'E4', 'G4']], handSize: 'small' }))
     expect(run.status).toBe(0)
