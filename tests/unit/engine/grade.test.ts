@@ -105,6 +105,13 @@ describe('gradeAttempt', () => {
     expect(result.positionChanges.played).toBe(result.positionChanges.at.length)
   })
 
+  it('plans positions from the suggested fingering where the teacher left fingers open', () => {
+    const open: DrillMusic = { ...scale, notes: scale.notes.map(({ finger: _, ...n }) => n) }
+    const result = gradeAttempt(open, perform(MIDIS, STEP))
+    // An octave of C major cannot be played in one five-finger position (common practice).
+    expect(result.positionChanges.planned).toBeGreaterThan(0)
+  })
+
   it('treats a note-on with velocity 0 as a release', () => {
     const events = perform(MIDIS, STEP).map(e => (e.on ? e : { ...e, on: true, velocity: 0 }))
     const result = gradeAttempt(scale, events)
