@@ -203,8 +203,11 @@ export function importMusicXml(text: string, options: MusicXmlImportOptions = {}
     measureStart += furthest
   }
 
-  const twoStaves = staves >= 2 || notes.some(n => n.staff >= 2)
-  const singleHand = options.hand ?? 'right'
+  const used = new Set(notes.map(n => n.staff))
+  const twoStaves = used.size >= 2
+  // One staff of a grand staff in use: that staff's hand; a one-staff part: the hand asked for.
+  const onlyStaff = used.values().next().value ?? 1
+  const singleHand: Hand = staves >= 2 ? (onlyStaff === 1 ? 'right' : 'left') : (options.hand ?? 'right')
   const workTitle = textOf(child(child(root, 'work') ?? {}, 'work-title'))
   return finishImport({
     hand: twoStaves ? 'both' : singleHand,

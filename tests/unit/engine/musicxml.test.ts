@@ -86,6 +86,16 @@ describe('importMusicXml', () => {
     expect(drill.notes[0]).not.toHaveProperty('hand')
   })
 
+  it('gives a grand staff with notes on the lower staff only to the left hand', () => {
+    const xml = `<score-partwise version="4.0"><part id="P1"><measure number="1">
+      <attributes><divisions>1</divisions><staves>2</staves></attributes>
+      ${note('C', 3, 1, '<staff>2</staff>')}${note('D', 3, 1, '<staff>2</staff>')}
+    </measure></part></score-partwise>`
+    const drill = importMusicXml(xml)
+    expect(drill.hand).toBe('left')
+    expect(drill.notes.every(n => n.hand === undefined)).toBe(true)
+  })
+
   it.each([
     ['plain text', 'hello', /not well-formed XML|not a MusicXML/],
     ['broken XML', '<score-partwise><part></score-partwise>', /not well-formed XML \(line 1/],
