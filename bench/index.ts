@@ -1,6 +1,9 @@
-// `npm run bench`: speed figures for the engine, printed (never asserted: the machine is shared).
+// `npm run bench`: speed figures for the engine and the practice store, printed (never asserted: the
+// machine is shared). The browser's latency and page size: `npm run bench:browser`.
 import { benchGrade } from './grade'
+import { benchPractice } from './practice'
 import { benchSuggest } from './suggest'
 
 benchSuggest()
 benchGrade()
+benchPractice()

@@ -8,14 +8,10 @@ PORT="${PORT:-3000}"
 DB_PORT="${DB_PORT:-3306}"
 HOST="${HOST:-127.0.0.1}"
 
-SERVER_PID=""
 cleanup() {
   trap - EXIT INT TERM
-  if [ -n "$SERVER_PID" ] && kill -0 "$SERVER_PID" 2>/dev/null; then
-    log "stopping the app"
-    kill "$SERVER_PID" 2>/dev/null || true
-    wait "$SERVER_PID" 2>/dev/null || true
-  fi
+  [ -n "$SERVER_PID" ] && log "stopping the app"
+  stop_app
   stop_mariadb
 }
 trap cleanup EXIT
@@ -33,13 +29,7 @@ export NUXT_DB_HOST=127.0.0.1 NUXT_DB_PORT="$DB_PORT" NUXT_DB_USER=evenhand NUXT
 ensure_build "$ROOT/.output"
 
 log "starting the app"
-HOST="$HOST" PORT="$PORT" NITRO_HOST="$HOST" NITRO_PORT="$PORT" node "$ROOT/.output/server/index.mjs" &
-SERVER_PID=$!
-for _ in $(seq 1 150); do
-  wait_http "http://$HOST:$PORT/api/health" && break
-  kill -0 "$SERVER_PID" 2>/dev/null || die "the app stopped during start-up"
-  sleep 0.2
-done
+HOST="$HOST" serve_app "$ROOT/.output" "$PORT"
 
 cat >&2 <<MSG
 

@@ -122,3 +122,49 @@ create_database() {
     GRANT ALL PRIVILEGES ON \`$db\`.* TO '$user'@'127.0.0.1';"
   mariadb --no-defaults --socket="$MARIADB_SOCKET" -uroot -e "$sql"
 }
+
+ensure_chromium() {
+  [ -x /usr/bin/chromium ] || apt_install chromium
+}
+
+# serve_app OUT PORT [LOG]: the built server from OUT on 127.0.0.1:PORT, in the background; waits for /api/health.
+SERVER_PID=""
+serve_app() {
+  local out="$1" port="$2" logfile="${3:-/dev/stderr}" host="${HOST:-127.0.0.1}"
+  HOST="$host" PORT="$port" NITRO_HOST="$host" NITRO_PORT="$port" node "$out/server/index.mjs" >"$logfile" 2>&1 &
+  SERVER_PID=$!
+  for _ in $(seq 1 150); do
+    wait_http "http://$host:$port/api/health" && return
+    kill -0 "$SERVER_PID" 2>/dev/null || { [ -f "$logfile" ] && tail -30 "$logfile" >&2; die "the app stopped during start-up"; }
+    sleep 0.2
+  done
+  die "the app did not answer on port $port within 30 s"
+}
+
+stop_app() {
+  if [ -n "$SERVER_PID" ] && kill -0 "$SERVER_PID" 2>/dev/null; then
+    kill "$SERVER_PID" 2>/dev/null || true
+    wait "$SERVER_PID" 2>/dev/null || true
+  fi
+  SERVER_PID=""
+}
+
+# The test set-up shared by `npm test` and the browser benchmark: its own MariaDB (DB_TEST_PORT, default 3307)
+# with a fresh, migrated and seeded database, and the app built into .output-test served on TEST_PORT (3100).
+start_test_stack() {
+  local db_port="${DB_TEST_PORT:-3307}" port="${TEST_PORT:-3100}"
+  start_mariadb mariadb-test "$db_port"
+  create_database evenhand_test evenhand_test evenhand_test fresh
+  export NUXT_DB_HOST=127.0.0.1 NUXT_DB_PORT="$db_port" NUXT_DB_USER=evenhand_test NUXT_DB_PASSWORD=evenhand_test NUXT_DB_DATABASE=evenhand_test
+  (cd "$ROOT" && node_modules/.bin/tsx scripts/migrate.ts && node_modules/.bin/tsx scripts/seed.ts)
+  ensure_build "$ROOT/.output-test" "$DATA/nuxt-test-build"
+  export NUXT_SESSION_PASSWORD="evenhand-test-session-password-0123456789"
+  HOST=127.0.0.1 serve_app "$ROOT/.output-test" "$port" "$DATA/test-server.log"
+  export EVENHAND_TEST_URL="http://127.0.0.1:$port"
+}
+
+stop_test_stack() {
+  trap - EXIT INT TERM
+  stop_app
+  stop_mariadb
+}

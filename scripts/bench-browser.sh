@@ -1,0 +1,15 @@
+#!/usr/bin/env bash
+# `npm run bench:browser`: the practice page's key-highlight latency and JavaScript size, measured
+# in Debian's chromium against the same stack `npm test` starts (own MariaDB, fresh seeded database).
+set -euo pipefail
+source "$(dirname "$0")/lib/common.sh"
+
+trap stop_test_stack EXIT
+trap 'exit 130' INT
+trap 'exit 143' TERM
+
+ensure_node_modules
+ensure_mariadb_installed
+ensure_chromium
+start_test_stack
+cd "$ROOT" && node_modules/.bin/tsx bench/latency.ts
