@@ -185,11 +185,16 @@ function measureLoudness(targets: Target[], matched: (PlayedNote | null)[], fing
   const overall = mean(present)
   const byFinger: GradeResult['loudness']['byFinger'] = { 1: null, 2: null, 3: null, 4: null, 5: null }
   if (overall !== null) {
-    for (const f of [1, 2, 3, 4, 5] as const) {
-      const own = targets.flatMap(t => fingers[t.index]!.finger === f && velocities[t.index] !== null ? [velocities[t.index]!] : [])
-      const m = mean(own)
-      byFinger[f] = m === null ? null : m - overall
+    const sum = [0, 0, 0, 0, 0, 0]
+    const count = [0, 0, 0, 0, 0, 0]
+    for (const t of targets) {
+      const finger = fingers[t.index]!.finger
+      const v = velocities[t.index]
+      if (finger === null || v === null) continue
+      sum[finger]! += v
+      count[finger]!++
     }
+    for (const f of [1, 2, 3, 4, 5] as const) byFinger[f] = count[f] ? sum[f]! / count[f]! - overall : null
   }
   const measured = ([1, 2, 3, 4, 5] as const).filter(f => byFinger[f] !== null)
   // Loudest and softest mean something only between at least two fingers.
