@@ -4,12 +4,6 @@
 set -euo pipefail
 source "$(dirname "$0")/lib/common.sh"
 
-trap stop_test_stack EXIT
-trap 'exit 130' INT
-trap 'exit 143' TERM
-
-ensure_node_modules
-ensure_mariadb_installed
-ensure_chromium
+prepare_test_machine
 start_test_stack
 cd "$ROOT" && node_modules/.bin/tsx bench/latency.ts

@@ -168,3 +168,14 @@ stop_test_stack() {
   stop_app
   stop_mariadb
 }
+
+# What `npm test` and the browser benchmark need before the stack: packages, MariaDB, chromium,
+# and traps that take the stack down however the script ends.
+prepare_test_machine() {
+  trap stop_test_stack EXIT
+  trap 'exit 130' INT
+  trap 'exit 143' TERM
+  ensure_node_modules
+  ensure_mariadb_installed
+  ensure_chromium
+}
