@@ -9,6 +9,12 @@
 // Costs: same pitch 0, a wrong pitch in the drill note's place SUBSTITUTE, a missed or an extra
 // note GAP each. SUBSTITUTE < 2 × GAP makes a wrong note cheaper than "missed + extra", and
 // SUBSTITUTE > GAP lets one gap buy back a run of matches after a skipped or added note.
+// Given the beat's length in ms (grading passes the tempo of a first alignment), two pairings
+// in a row also cost up to TIME_MAX when the played interval between them differs from the
+// written one. TIME_MAX is small beside GAP and SUBSTITUTE, so time mostly settles what pitch
+// and order leave open: which of two repeated keys was the missed one (where the long gap is),
+// or which of a doubled note answers the drill. Intervals, not onsets against one fitted line,
+// so that a gradual change of tempo costs nothing.
 //
 // The dynamic programme runs in a band around the diagonal from (0, 0) to (drill, played),
 // wide enough for the length difference plus a margin, so a 100,000-note attempt needs
@@ -31,6 +37,10 @@ export interface Alignment {
 export interface AlignOptions {
   /** Played notes whose onsets lie within this many ms of a group's first onset count as one chord. */
   chordWindowMs?: number
+  /** The played tempo as ms per beat; intervals are not compared when absent. */
+  msPerBeat?: number
+  /** How far an interval may be off (ms) before it costs the full TIME_MAX; typically one note step. */
+  toleranceMs?: number
 }
 
 /** Same window the inference uses for chords, so both modules see the same groups. */
@@ -41,18 +51,25 @@ export const CHORD_WINDOW_MS = 30
  */
 const HANDS_TOGETHER_MS = 100
 
-const SUBSTITUTE = 3
-const GAP = 2
+const SUBSTITUTE = 30
+const GAP = 20
+const TIME_MAX = 9
 /** Extra band width beyond the length difference: room for local detours (a skipped or added run). */
 const BAND_MARGIN = 32
-/** Upper bound on DP cells (5 bytes each: cost and traceback), so junk input cannot exhaust memory. */
-const MAX_CELLS = 10_000_000
+/** Upper bound on DP cells (18 bytes each: costs, tracebacks, last pairings), so junk input cannot exhaust memory. */
+const MAX_CELLS = 4_000_000
 const INF = 0x3fffffff
 
-const DIAGONAL = 0
-const UP = 1 // target missed
-const LEFT = 2 // played note extra
-const SWAP = 3 // two notes struck within the chord window, matched crosswise
+// How a cell was reached. Pairings: straight on, or two notes matched crosswise (SWAP);
+// gaps: a missed drill note (UP) or an extra played note (LEFT); each from either layer.
+const DIAGONAL_FROM_M = 0
+const DIAGONAL_FROM_G = 1
+const SWAP_FROM_M = 2
+const SWAP_FROM_G = 3
+const UP_FROM_M = 0
+const UP_FROM_G = 1
+const LEFT_FROM_M = 2
+const LEFT_FROM_G = 3
 
 function targetOrder(targets: readonly AlignTarget[]): number[] {
   return targets.map((_, i) => i).sort((a, b) => targets[a]!.beat - targets[b]!.beat || targets[a]!.midi - targets[b]!.midi || a - b)
@@ -85,6 +102,14 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
   const pMidi = Int32Array.from(pi, i => played[i]!.midi)
   const tBeat = Float64Array.from(ti, i => targets[i]!.beat)
   const pOn = Float64Array.from(pi, i => played[i]!.onMs)
+  const msPerBeat = options.msPerBeat && options.msPerBeat > 0 ? options.msPerBeat : null
+  const tolerance = options.toleranceMs && options.toleranceMs > 0 ? options.toleranceMs : 1
+  /** Off-time cost of pairing drill note a with played note b after the pairing pa–pb (0-based canonical indices). */
+  const uneven = (a: number, b: number, pa: number, pb: number): number => {
+    if (msPerBeat === null || pa < 0 || pb < 0) return 0
+    const off = Math.abs(pOn[b]! - pOn[pb]! - msPerBeat * (tBeat[a]! - tBeat[pa]!))
+    return Math.min(TIME_MAX, Math.round((TIME_MAX * off) / tolerance))
+  }
   /** Whether drill notes i-2, i-1 (1-based i) may be matched crosswise with played notes j-2, j-1. */
   const mayCross = (i: number, j: number): boolean => grouped[j - 1] === 1
     || (tBeat[i - 1] === tBeat[i - 2] && pOn[j - 1]! - pOn[j - 2]! <= HANDS_TOGETHER_MS)
@@ -100,50 +125,65 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
     hi[i] = i === n ? m : Math.min(m, centre + width)
     rowStart[i + 1] = rowStart[i]! + hi[i]! - lo[i]! + 1
   }
+  // Two layers: the best cost of aligning the first i drill and j played notes ending in a
+  // pairing (M) or in a missed or extra note (G), so that an interval is judged between two
+  // pairings that really follow each other on the chosen path. G carries that path's last
+  // pairing across the gap.
   const cells = rowStart[rows]!
-  const cost = new Int32Array(cells)
-  const trace = new Uint8Array(cells)
-  const at = (i: number, j: number): number => (j < lo[i]! || j > hi[i]! ? INF : cost[rowStart[i]! - lo[i]! + j]!)
+  const costM = new Int32Array(cells).fill(INF)
+  const costG = new Int32Array(cells).fill(INF)
+  const traceM = new Uint8Array(cells)
+  const traceG = new Uint8Array(cells)
+  const lastTargetG = new Int32Array(cells).fill(-1)
+  const lastPlayedG = new Int32Array(cells).fill(-1)
+  /** Enter G at `here` from cell `from` (reached at row i', column j'); returns the cost. */
+  const gapFrom = (here: number, from: number, fi: number, fj: number, viaUp: boolean): number => {
+    const fromM = costM[from]!
+    const fromG = costG[from]!
+    const cost = Math.min(fromM, fromG) + GAP
+    if (cost < costG[here]!) {
+      costG[here] = cost
+      const m = fromM < fromG
+      traceG[here] = viaUp ? (m ? UP_FROM_M : UP_FROM_G) : (m ? LEFT_FROM_M : LEFT_FROM_G)
+      lastTargetG[here] = m ? fi - 1 : lastTargetG[from]!
+      lastPlayedG[here] = m ? fj - 1 : lastPlayedG[from]!
+    }
+    return cost
+  }
+  const cell = (i: number, j: number): number => (j < lo[i]! || j > hi[i]! ? -1 : rowStart[i]! - lo[i]! + j)
 
   for (let j = 0; j <= hi[0]!; j++) {
-    cost[j] = j * GAP
-    trace[j] = LEFT
+    costG[j] = j * GAP
+    traceG[j] = LEFT_FROM_G
   }
+  // Row 0 has no pairing, so a pairing after it is judged against none.
   for (let i = 1; i <= n; i++) {
-    const base = rowStart[i]! - lo[i]!
-    const lo0 = lo[i]!
-    // The row above, read directly: its band starts no later and ends no later than this one's.
-    const upBase = rowStart[i - 1]! - lo[i - 1]!
-    const upLo = lo[i - 1]!
-    const upHi = hi[i - 1]!
     const midi = tMidi[i - 1]!
     const before = i > 1 ? tMidi[i - 2]! : -1
-    for (let j = lo0; j <= hi[i]!; j++) {
-      let best = (j <= upHi ? cost[upBase + j]! : INF) + GAP
-      let move = UP
-      if (j > 0) {
-        const diagonal = (j - 1 >= upLo && j - 1 <= upHi ? cost[upBase + j - 1]! : INF) + (pMidi[j - 1] === midi ? 0 : SUBSTITUTE)
-        if (diagonal <= best) {
-          best = diagonal
-          move = DIAGONAL
-        }
-        if (j > lo0) {
-          const left = cost[base + j - 1]! + GAP
-          if (left < best) {
-            best = left
-            move = LEFT
-          }
-        }
-        if (before !== -1 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before && mayCross(i, j)) {
-          const crossed = at(i - 2, j - 2)
-          if (crossed < best) {
-            best = crossed
-            move = SWAP
-          }
+    for (let j = lo[i]!; j <= hi[i]!; j++) {
+      const here = cell(i, j)
+      const up = cell(i - 1, j)
+      if (up >= 0) gapFrom(here, up, i - 1, j, true)
+      if (j === 0) continue
+      const left = cell(i, j - 1)
+      if (left >= 0) gapFrom(here, left, i, j - 1, false)
+      const diagonal = cell(i - 1, j - 1)
+      if (diagonal >= 0) {
+        const pitch = pMidi[j - 1] === midi ? 0 : SUBSTITUTE
+        const fromM = costM[diagonal]! + pitch + uneven(i - 1, j - 1, i - 2, j - 2)
+        const fromG = costG[diagonal]! + pitch + uneven(i - 1, j - 1, lastTargetG[diagonal]!, lastPlayedG[diagonal]!)
+        costM[here] = Math.min(fromM, fromG)
+        traceM[here] = fromM < fromG ? DIAGONAL_FROM_M : DIAGONAL_FROM_G
+      }
+      const crossed = j > 1 && before !== -1 ? cell(i - 2, j - 2) : -1
+      if (crossed >= 0 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before && mayCross(i, j)) {
+        const fromM = costM[crossed]!
+        const fromG = costG[crossed]!
+        if (Math.min(fromM, fromG) < costM[here]!) {
+          costM[here] = Math.min(fromM, fromG)
+          traceM[here] = fromM < fromG ? SWAP_FROM_M : SWAP_FROM_G
         }
       }
-      cost[base + j] = best
-      trace[base + j] = move
     }
   }
 
@@ -157,25 +197,35 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
   const extrasReversed: number[] = []
   let i = n
   let j = m
+  const last = cell(n, m)
+  let inM = costM[last]! <= costG[last]!
   while (i > 0 || j > 0) {
-    const move = i === 0 ? LEFT : j < lo[i]! || j > hi[i]! ? UP : trace[rowStart[i]! - lo[i]! + j]!
-    if (move === DIAGONAL) {
-      pair(i - 1, j - 1)
-      i--
-      j--
-    }
-    else if (move === SWAP) {
-      pair(i - 1, j - 2)
-      pair(i - 2, j - 1)
-      i -= 2
-      j -= 2
-    }
-    else if (move === UP) {
-      i--
+    const here = cell(i, j)
+    if (inM) {
+      const move = traceM[here]!
+      if (move === SWAP_FROM_M || move === SWAP_FROM_G) {
+        pair(i - 1, j - 2)
+        pair(i - 2, j - 1)
+        i -= 2
+        j -= 2
+      }
+      else {
+        pair(i - 1, j - 1)
+        i--
+        j--
+      }
+      inM = move === DIAGONAL_FROM_M || move === SWAP_FROM_M
     }
     else {
-      extrasReversed.push(pi[j - 1]!)
-      j--
+      const move = traceG[here]!
+      if (move === UP_FROM_M || move === UP_FROM_G) {
+        i--
+      }
+      else {
+        extrasReversed.push(pi[j - 1]!)
+        j--
+      }
+      inM = move === UP_FROM_M || move === LEFT_FROM_M
     }
   }
 

@@ -13,13 +13,13 @@
 //   Every part but accuracy is multiplied by the share of drill notes played (correct + wrong),
 //   so three clean notes out of a hundred do not earn the timing and tempo marks. Where no note
 //   carried a velocity (on-screen keys), loudness drops out and the other weights are rescaled.
-import { alignNotes } from './align'
+import { alignNotes, type Alignment } from './align'
 import { positionStarts } from './ergonomics'
 import { noteHand } from './hands'
 import { inferFingering, type PerformedNote } from './infer'
 import { pairNoteEvents, type PlayedNote } from './performance'
 import { midiFromName } from './pitch'
-import { leastSquaresLine, mean, median, standardDeviation } from './stats'
+import { leastSquaresLine, mean, median, standardDeviation, type Line } from './stats'
 import { suggestFingering } from './suggest'
 import type { DrillMusic, Finger, GradeOptions, GradeResult, Hand, LineItem, PlayedEvent } from './types'
 
@@ -127,8 +127,8 @@ function typicalStep(targets: Target[]): number | null {
   return median(gaps)
 }
 
-function measureTiming(targets: Target[], matched: (PlayedNote | null)[]): Timing {
-  const deviationsMs: (number | null)[] = targets.map(() => null)
+/** Onsets against beats for the matched notes, and the straight line through them. */
+function fitOnsets(targets: Target[], matched: (PlayedNote | null)[]): { xs: number[], ys: number[], line: Line | null } {
   const xs: number[] = []
   const ys: number[] = []
   for (const t of targets) {
@@ -138,10 +138,25 @@ function measureTiming(targets: Target[], matched: (PlayedNote | null)[]): Timin
     ys.push(p.onMs)
   }
   const line = leastSquaresLine(xs, ys)
-  const msPerBeat = line && line.slope > 0 ? line.slope : null
-  if (!line || msPerBeat === null) {
-    return { timing: { sdMs: null, cvPercent: null, ioiVariationPercent: null, deviationsMs }, msPerBeat }
-  }
+  return { xs, ys, line: line && line.slope > 0 ? line : null }
+}
+
+/**
+ * Pitch and order first; then again with the tempo that alignment implies, so that time
+ * decides between equally good matches (a repeated key, a doubled note).
+ */
+function alignWithTime(targets: Target[], played: PlayedNote[], step: number | null): Alignment {
+  const first = alignNotes(targets, played)
+  const { line } = fitOnsets(targets, first.match.map(k => (k === null ? null : played[k]!)))
+  if (!line || !step) return first
+  return alignNotes(targets, played, { msPerBeat: line.slope, toleranceMs: line.slope * step })
+}
+
+function measureTiming(targets: Target[], matched: (PlayedNote | null)[], step: number | null): Timing {
+  const deviationsMs: (number | null)[] = targets.map(() => null)
+  const { xs, ys, line } = fitOnsets(targets, matched)
+  if (!line) return { timing: { sdMs: null, cvPercent: null, ioiVariationPercent: null, deviationsMs }, msPerBeat: null }
+  const msPerBeat = line.slope
   const residuals: number[] = []
   for (const t of targets) {
     const p = matched[t.index]
@@ -151,7 +166,6 @@ function measureTiming(targets: Target[], matched: (PlayedNote | null)[]): Timin
     residuals.push(r)
   }
   const sdMs = standardDeviation(residuals)!
-  const step = typicalStep(targets)
   const cvPercent = step ? (100 * sdMs) / (msPerBeat * step) : null
   return { timing: { sdMs, cvPercent, ioiVariationPercent: ioiVariation(xs, ys), deviationsMs }, msPerBeat }
 }
@@ -209,10 +223,11 @@ const clamp01 = (x: number): number => Math.min(1, Math.max(0, x))
 export function gradeAttempt(drill: DrillMusic, events: PlayedEvent[], options: GradeOptions = {}): GradeResult {
   const targets = targetsOf(drill)
   const played = pairNoteEvents(events)
-  const alignment = alignNotes(targets, played)
+  const step = typicalStep(targets)
+  const alignment = alignWithTime(targets, played, step)
   const matched = alignment.match.map(k => (k === null ? null : played[k]!))
 
-  const { timing, msPerBeat } = measureTiming(targets, matched)
+  const { timing, msPerBeat } = measureTiming(targets, matched, step)
   const inferred = inferPerHand(targets, matched, options.handSize)
   const loudness = measureLoudness(targets, matched, inferred.fingers)
   const plannedAt = (['right', 'left'] as const)

@@ -62,6 +62,14 @@ describe('alignNotes', () => {
     expect(alignNotes(targets, late).counts.correct).toBe(3)
   })
 
+  it('uses the intervals, given a tempo, to find which repeated key was missed', () => {
+    const targets = line([67, 67, 67, 67, 67, 67])
+    const played = [0, 600, 1800, 2400, 3000].map(onMs => ({ midi: 67, onMs }))
+    expect(alignNotes(targets, played, { msPerBeat: 600, toleranceMs: 600 }).outcome).toEqual(['correct', 'correct', 'missed', 'correct', 'correct', 'correct'])
+    // A rough tempo is enough: the long gap still stands out.
+    expect(alignNotes(targets, played, { msPerBeat: 780, toleranceMs: 780 }).outcome[2]).toBe('missed')
+  })
+
   it('finds the whole drill after a false start', () => {
     const played = play([...SCALE.slice(0, 3), ...SCALE])
     const a = alignNotes(line(SCALE), played)

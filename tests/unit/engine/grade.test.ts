@@ -87,6 +87,25 @@ describe('gradeAttempt', () => {
     expect(result.loudness.velocities[9]).toBeNull()
   })
 
+  it('lets timing decide which of a repeated key was missed', () => {
+    const repeated: DrillMusic = { hand: 'right', tempoBpm: 100, notes: [0, 1, 2, 3, 4, 5].map(k => ({ pitch: 'G4', beat: k, length: 1, finger: 3 })) }
+    const events = [0, 600, 1800, 2400, 3000].flatMap(t => [
+      { note: 67, on: true, velocity: 64, timeMs: t },
+      { note: 67, on: false, timeMs: t + 500 },
+    ])
+    const result = gradeAttempt(repeated, events)
+    expect(result.notes.map(n => n.outcome)).toEqual(['correct', 'correct', 'missed', 'correct', 'correct', 'correct'])
+    expect(result.timing.sdMs).toBeCloseTo(0, 6)
+  })
+
+  it('matches a doubled last note by its time, counting the stutter as extra', () => {
+    const events = perform([...MIDIS, 60], STEP)
+    events[events.length - 2]!.timeMs = 1000 + 14 * STEP + 120
+    const result = gradeAttempt(scale, events)
+    expect(result.accuracy.extra).toBe(1)
+    expect(result.timing.sdMs).toBeCloseTo(0, 6)
+  })
+
   it('names extra notes by their event index', () => {
     const events = perform(MIDIS, STEP)
     events.splice(4, 0, { note: 90, on: true, velocity: 50, timeMs: 1650 }, { note: 90, on: false, timeMs: 1700 })
