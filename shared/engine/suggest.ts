@@ -3,6 +3,7 @@ import { cheapestPath, pathCost, type Lattice } from './chain'
 import { costModel, positionStarts, type Touch } from './ergonomics'
 import { isBlackKey, keyCenterMm, WHITE_KEY_MM } from './keys'
 import { chosenTouches, lineLattice } from './lattice'
+import { FORBIDDEN, scaleFingering, scalePhases } from './scale'
 import { itemKeys, itemPitchesLowToHigh, toRightHandSpace } from './touches'
 import type { Finger, Hand, LineItem, SuggestInput, SuggestResult } from './types'
 
@@ -47,26 +48,6 @@ export function sequencePeriod(keys: number[]): number {
   return 0
 }
 
-/**
- * A scale-like run: every step goes to the neighbouring pitch class of the line's own set (a scale of
- * five to twelve notes) and the line covers an octave. Its phases are the pitch classes, because a
- * scale fingering is one finger per pitch class (common practice: the printed tables give it so, the
- * same up and down), or null.
- */
-export function scalePhases(keys: number[]): number[] | null {
-  const classes = [...new Set(keys.map(k => ((k % 12) + 12) % 12))].sort((a, b) => a - b)
-  if (classes.length < 5 || Math.max(...keys) - Math.min(...keys) < 12) return null
-  const rank = new Map(classes.map((c, i) => [c, i]))
-  const phases = keys.map(k => rank.get(((k % 12) + 12) % 12)!)
-  for (let i = 1; i < keys.length; i++) {
-    const step = keys[i]! - keys[i - 1]!
-    const moved = (phases[i]! - phases[i - 1]! + classes.length) % classes.length
-    const neighbour = (step > 0 && moved === 1) || (step < 0 && moved === classes.length - 1)
-    if (!neighbour || Math.abs(step) > 2) return null
-  }
-  return phases
-}
-
 /** The finger most often used at each phase (ties to the lower finger). */
 function sharedPattern(fingers: Finger[], phases: number[]): Map<number, Finger> {
   const counts = new Map<number, number[]>()
@@ -82,17 +63,18 @@ function sharedPattern(fingers: Finger[], phases: number[]): Map<number, Finger>
   }))
 }
 
-/** The same lattice with a cost on each single-note option that differs from the preferred finger. */
-function withPreference(lattice: Lattice, prefer: Finger[]): Lattice {
-  const penalise = (costs: ArrayLike<number>, size: number, finger: Finger): Float64Array => {
+/** The same lattice of single notes with a cost added to each note's fingers. */
+function withPenalty(lattice: Lattice, penalty: (i: number, finger: Finger) => number): Lattice {
+  const penalise = (costs: ArrayLike<number>, i: number): Float64Array => {
     const out = Float64Array.from(costs)
-    for (let j = 0; j < out.length; j++) if ((j % size) !== finger - 1) out[j] = out[j]! + CONSISTENCY_POINTS
+    const size = lattice.sizes[i]!
+    for (let j = 0; j < out.length; j++) out[j] = out[j]! + penalty(i, ((j % size) + 1) as Finger)
     return out
   }
   return {
     sizes: lattice.sizes,
-    first: () => penalise(lattice.first(), lattice.sizes[0]!, prefer[0]!),
-    pair: i => penalise(lattice.pair(i), lattice.sizes[i]!, prefer[i]!),
+    first: () => penalise(lattice.first(), 0),
+    pair: i => penalise(lattice.pair(i), i),
     triple: i => lattice.triple(i),
   }
 }
@@ -111,16 +93,25 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
   const { hand, notes, handSize = 'medium' } = input
   const keys = notes.map(item => itemKeys(hand, item))
   const lattice = lineLattice(keys, costModel(handSize))
-  let { path } = cheapestPath(lattice)
-  // Repeated shapes: a drill sequence is taught with one fingering for every group, and a scale with
-  // one finger per pitch class, so the free optimum's most common finger at each place of the group
-  // (or pitch class) becomes a soft preference (a second search with CONSISTENCY_POINTS per deviation).
   const line = keys.every(k => k.length === 1) ? keys.map(k => k[0]!) : null
-  const period = line ? sequencePeriod(line) : 0
-  const phases = line ? scalePhases(line) ?? (period > 0 ? line.map((_, i) => i % period) : null) : null
-  if (phases) {
-    const pattern = sharedPattern(path.map(o => (o + 1) as Finger), phases)
-    path = cheapestPath(withPreference(lattice, phases.map(phase => pattern.get(phase)!))).path
+  const phases = line ? scalePhases(line) : null
+  const period = line && !phases ? sequencePeriod(line) : 0
+  let path: number[]
+  if (line && phases) {
+    // A scale: one finger per pitch class, the pattern chosen by search over the whole run (scale.ts).
+    const { allowed } = scaleFingering(line, phases, costModel(handSize))
+    path = cheapestPath(withPenalty(lattice, (i, f) => (allowed(i, f) ? 0 : FORBIDDEN))).path
+  }
+  else if (period > 0) {
+    // A drill sequence is taught with one fingering for every group, so the free optimum's most common
+    // finger at each place of the group becomes a soft preference (CONSISTENCY_POINTS per deviation).
+    const free = cheapestPath(lattice).path
+    const groupPhases = line!.map((_, i) => i % period)
+    const pattern = sharedPattern(free.map(o => (o + 1) as Finger), groupPhases)
+    path = cheapestPath(withPenalty(lattice, (i, f) => (f === pattern.get(groupPhases[i]!) ? 0 : CONSISTENCY_POINTS))).path
+  }
+  else {
+    path = cheapestPath(lattice).path
   }
   const fingers = fingersForItems(hand, notes, chosenTouches(lattice, path))
   const positions = positionStarts(hand, notes, fingers, handSize)

@@ -1,0 +1,230 @@
+// The fingering of a scale run: one finger per pitch class, chosen by search over the whole line.
+import type { CostModel } from './ergonomics'
+import { isBlackKey } from './keys'
+import type { Finger } from './types'
+
+/**
+ * Points for every note of the run that a pattern plays against one of the scale conventions below.
+ * Tuned against the printed tables: the smallest round figure that keeps the conventions for scales of
+ * any length (the model's cheapest rival to the printed left-hand C major is 14 points an octave
+ * cheaper, and each octave has two keynotes), yet far below a move beyond reach (1000).
+ */
+const CONVENTION_POINTS = 10
+
+/**
+ * Points for every thumb note of a pattern whose thumb passes from a white key. A tie-break: Parncutt
+ * et al. 1997 rule 12 already charges a pass on one level, but the semitone-based span rules can cancel
+ * it (in A♭ major the right hand's 4 on B♭ and 4 on F cost the same without it). Common practice: the
+ * printed tables put the thumb right after a black key wherever the scale allows.
+ */
+const WHITE_PASS_POINTS = 1
+
+/** Stands in for "not allowed" in a lattice, where costs must stay finite. */
+export const FORBIDDEN = 1e6
+
+/**
+ * A scale-like run: every step goes to the neighbouring pitch class of the line's own set (a scale of
+ * five to twelve notes) and the line covers an octave. Its phases are the pitch classes, because a
+ * scale fingering is one finger per pitch class (common practice: the printed tables give it so, the
+ * same up and down), or null.
+ */
+export function scalePhases(keys: number[]): number[] | null {
+  const classes = pitchClasses(keys)
+  if (classes.length < 5 || Math.max(...keys) - Math.min(...keys) < 12) return null
+  const rank = new Map(classes.map((c, i) => [c, i]))
+  const phases = keys.map(k => rank.get(pitchClass(k))!)
+  for (let i = 1; i < keys.length; i++) {
+    const step = keys[i]! - keys[i - 1]!
+    const moved = (phases[i]! - phases[i - 1]! + classes.length) % classes.length
+    const neighbour = (step > 0 && moved === 1) || (step < 0 && moved === classes.length - 1)
+    if (!neighbour || Math.abs(step) > 2) return null
+  }
+  return phases
+}
+
+const pitchClass = (k: number): number => ((k % 12) + 12) % 12
+
+function pitchClasses(keys: number[]): number[] {
+  return [...new Set(keys.map(pitchClass))].sort((a, b) => a - b)
+}
+
+/** A thumb crossing between two touches: the thumb and another finger on the wrong sides of each other. */
+function crosses(fa: Finger, ka: number, fb: Finger, kb: number): boolean {
+  return (fa === 1) !== (fb === 1) && (fa - fb) * (ka - kb) < 0
+}
+
+/**
+ * Notes at the line's edges (first, last, each turn) whose finger may leave the pattern. Common practice
+ * (the printed tables): an edge note leaves it only where the hand can reach it without the thumb
+ * crossing (the right hand's top C on 5, the left hand's bottom C on 5), never to change which finger
+ * crosses. Only edges at least three notes from another edge are free, so that each one's choice is
+ * independent of the others and the pattern search below stays exact; the rest keep the pattern.
+ */
+function freeEdges(keys: number[]): boolean[] {
+  const n = keys.length
+  const edge = keys.map((k, i) => i === 0 || i === n - 1 || (keys[i - 1]! - k) * (keys[i + 1]! - k) > 0)
+  return edge.map((e, i) => e && [i - 2, i - 1, i + 1, i + 2].every(j => !edge[j]))
+}
+
+/** The fingers a note may take under a pattern: its own, or at a free edge any that avoids the pattern's crossing. */
+function allowedFinger(keys: number[], free: boolean[], fingerAt: (i: number) => Finger, i: number, f: Finger): boolean {
+  const own = fingerAt(i)
+  if (f === own) return true
+  if (!free[i]) return false
+  const crossesNeighbour = (g: Finger): boolean =>
+    [i - 1, i + 1].some(j => j >= 0 && j < keys.length && crosses(fingerAt(j), keys[j]!, g, keys[i]!))
+  return crossesNeighbour(own) && !crossesNeighbour(f)
+}
+
+export interface ScaleFingering {
+  /** Whether note i may take finger f: its class's finger, or at a free edge an alternative that avoids a crossing. */
+  allowed: (i: number, f: Finger) => boolean
+}
+
+const FINGERS: readonly Finger[] = [1, 2, 3, 4, 5]
+
+/**
+ * The pattern, one finger per pitch class, whose line costs least under the model plus the scale
+ * conventions. Every cost of the line depends on at most three neighbouring pitch classes (a step joins
+ * neighbours, three notes span at most three, and a free edge's best finger depends only on its
+ * neighbours' pattern), so the search is a second-order chain around the circle of pitch classes:
+ * exact over all 5^m patterns at a cost of about 25 · m · 125 steps after one pass over the line.
+ */
+export function scaleFingering(keys: number[], phases: number[], model: CostModel): ScaleFingering {
+  const classes = pitchClasses(keys)
+  const m = classes.length
+  const free = freeEdges(keys)
+  // windows[c][(a · 5 + b) · 5 + d]: costs that depend on the fingers a, b, d of classes c − 1, c, c + 1.
+  const windows = classes.map(() => new Float64Array(125))
+  const slot = (centre: number, phase: number): number => (phase - centre + 1 + m) % m
+  const fit = (notes: number[]): number => {
+    for (const i of notes) {
+      for (const centre of [phases[i]!, (phases[i]! + 1) % m, (phases[i]! + m - 1) % m]) {
+        if (notes.every(j => slot(centre, phases[j]!) <= 2)) return centre
+      }
+    }
+    return phases[notes[0]!]!
+  }
+  // Adds a cost over some notes to the window that holds their classes; `free` notes take their best allowed finger.
+  const addTerm = (notes: number[], cost: (finger: (i: number) => Finger) => number): void => {
+    const centre = fit(notes)
+    const window = windows[centre]!
+    for (let j = 0; j < 125; j++) {
+      const trio = [Math.floor(j / 25), Math.floor(j / 5) % 5, j % 5]
+      const patternFinger = (i: number): Finger => (trio[slot(centre, phases[i]!)]! + 1) as Finger
+      const edge = notes.find(i => free[i])
+      if (edge === undefined) {
+        window[j] = window[j]! + cost(patternFinger)
+        continue
+      }
+      let best = Infinity
+      for (const f of FINGERS) {
+        if (!allowedFinger(keys, free, patternFinger, edge, f)) continue
+        best = Math.min(best, cost(i => (i === edge ? f : patternFinger(i))))
+      }
+      window[j] = window[j]! + best
+    }
+  }
+  const n = keys.length
+  const index5 = (f: Finger): number => f - 1
+  const pairCost = (i: number) => (finger: (i: number) => Finger): number =>
+    model.pair(keys[i - 1]!, keys[i]!)[index5(finger(i - 1)) * 5 + index5(finger(i))]!
+  const tripleCost = (i: number) => (finger: (i: number) => Finger): number =>
+    model.triple(keys[i - 2]!, keys[i - 1]!, keys[i]!)[(index5(finger(i - 2)) * 5 + index5(finger(i - 1))) * 5 + index5(finger(i))]!
+  const firstCost = (finger: (i: number) => Finger): number => model.first(keys[0]!)[index5(finger(0))]!
+  // A free edge's terms go together, so that its finger is chosen once for all of them.
+  const edgeTerms = new Map<number, ((finger: (i: number) => Finger) => number)[]>()
+  const edgeNotes = new Map<number, Set<number>>()
+  const term = (notes: number[], cost: (finger: (i: number) => Finger) => number): void => {
+    const edge = notes.find(i => free[i])
+    if (edge === undefined) return addTerm(notes, cost)
+    edgeTerms.set(edge, [...(edgeTerms.get(edge) ?? []), cost])
+    edgeNotes.set(edge, new Set([...(edgeNotes.get(edge) ?? []), ...notes]))
+  }
+  term([0], firstCost)
+  for (let i = 1; i < n; i++) term([i - 1, i], pairCost(i))
+  for (let i = 2; i < n; i++) term([i - 2, i - 1, i], tripleCost(i))
+  for (const [edge, costs] of edgeTerms) {
+    const notes = [...edgeNotes.get(edge)!]
+    addTerm(notes, finger => costs.reduce((sum, cost) => sum + cost(finger), 0))
+  }
+  addConventions(windows, phases, classes)
+  const pattern = cheapestCycle(windows)
+  const fingerAt = (i: number): Finger => pattern[phases[i]!]!
+  return { allowed: (i, f) => allowedFinger(keys, free, fingerAt, i, f) }
+}
+
+/**
+ * Scale conventions of the printed tables (common practice), charged per note of the run so that they
+ * weigh the same at any length: the thumb stays off black keys, and on the run's first pitch class (a
+ * scale drill starts on its keynote) when that key is white, as every printed major scale with a white
+ * keynote does in both hands, so that the hands meet on the thumbs in contrary motion.
+ */
+function addConventions(windows: Float64Array[], phases: number[], classes: number[]): void {
+  const m = classes.length
+  const notesOf = classes.map(() => 0)
+  for (const phase of phases) notesOf[phase]!++
+  const keynote = phases[0]!
+  classes.forEach((c, phase) => {
+    const black = isBlackKey(c)
+    const fromWhite = !isBlackKey(classes[(phase + m - 1) % m]!)
+    const window = windows[phase]!
+    for (let j = 0; j < 125; j++) {
+      const thumb = Math.floor(j / 5) % 5 === 0
+      let points = 0
+      if (thumb && black) points += CONVENTION_POINTS
+      if (!thumb && phase === keynote && !black) points += CONVENTION_POINTS
+      if (thumb && fromWhite) points += WHITE_PASS_POINTS
+      window[j] = window[j]! + points * notesOf[phase]!
+    }
+  })
+}
+
+/** The cheapest assignment of fingers around the circle of classes, window c costing fingers of c − 1, c, c + 1. */
+function cheapestCycle(windows: Float64Array[]): Finger[] {
+  const m = windows.length
+  let best = Infinity
+  let bestPattern: Finger[] = []
+  for (let start = 0; start < 25; start++) {
+    const f0 = Math.floor(start / 5)
+    const f1 = start % 5
+    // cost[b · 5 + d]: cheapest fingers of classes 0 … p + 1 ending on b at p and d at p + 1.
+    let cost = new Float64Array(25).fill(Infinity)
+    cost[start] = 0
+    const back: Int8Array[] = []
+    for (let p = 1; p <= m - 2; p++) {
+      const next = new Float64Array(25).fill(Infinity)
+      const from = new Int8Array(25)
+      const window = windows[p]!
+      for (let a = 0; a < 5; a++) {
+        for (let b = 0; b < 5; b++) {
+          const before = cost[a * 5 + b]!
+          if (before === Infinity) continue
+          for (let d = 0; d < 5; d++) {
+            const v = before + window[(a * 5 + b) * 5 + d]!
+            if (v < next[b * 5 + d]!) {
+              next[b * 5 + d] = v
+              from[b * 5 + d] = a
+            }
+          }
+        }
+      }
+      back.push(from)
+      cost = next
+    }
+    for (let end = 0; end < 25; end++) {
+      const a = Math.floor(end / 5)
+      const b = end % 5
+      const v = cost[end]! + windows[m - 1]![(a * 5 + b) * 5 + f0]! + windows[0]![(b * 5 + f0) * 5 + f1]!
+      if (v >= best) continue
+      best = v
+      const fingers = new Array<number>(m)
+      fingers[0] = f0
+      fingers[m - 1] = b
+      fingers[m - 2] = a
+      for (let p = m - 2; p >= 2; p--) fingers[p - 1] = back[p - 1]![fingers[p]! * 5 + fingers[p + 1]!]!
+      bestPattern = fingers.map(f => (f + 1) as Finger)
+    }
+  }
+  return bestPattern
+}
