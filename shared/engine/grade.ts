@@ -204,7 +204,7 @@ function measureLoudness(targets: Target[], matched: (PlayedNote | null)[], fing
     for (const t of targets) {
       const finger = fingers[t.index]!.finger
       const v = velocities[t.index]
-      if (finger === null || v === null) continue
+      if (finger === null || v == null) continue
       sum[finger]! += v
       count[finger]!++
     }
