@@ -6,4 +6,6 @@ source "$(dirname "$0")/lib/common.sh"
 
 prepare_test_machine
 start_test_stack
-cd "$ROOT" && node_modules/.bin/tsx bench/latency.ts
+cd "$ROOT"
+node_modules/.bin/tsx bench/latency.ts
+node_modules/.bin/tsx bench/settings-latency.ts
