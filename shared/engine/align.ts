@@ -58,7 +58,7 @@ const TIME_MAX = 9
 const BAND_MARGIN = 32
 /** Upper bound on DP cells (18 bytes each: costs, tracebacks, last pairings), so junk input cannot exhaust memory. */
 const MAX_CELLS = 4_000_000
-const INF = 0x3fffffff
+const INF = 0x0fffffff
 
 // How a cell was reached. Pairings: straight on, or two notes matched crosswise (SWAP);
 // gaps: a missed drill note (UP) or an extra played note (LEFT); each from either layer.
@@ -102,13 +102,15 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
   const pMidi = Int32Array.from(pi, i => played[i]!.midi)
   const tBeat = Float64Array.from(ti, i => targets[i]!.beat)
   const pOn = Float64Array.from(pi, i => played[i]!.onMs)
-  const msPerBeat = options.msPerBeat && options.msPerBeat > 0 ? options.msPerBeat : null
-  const tolerance = options.toleranceMs && options.toleranceMs > 0 ? options.toleranceMs : 1
+  const timed = options.msPerBeat !== undefined && options.msPerBeat > 0
+  // Each drill note's written time in ms at the played tempo, and cost units per ms off.
+  const tMs = Float64Array.from(tBeat, b => b * (timed ? options.msPerBeat! : 0))
+  const perMs = timed ? TIME_MAX / (options.toleranceMs && options.toleranceMs > 0 ? options.toleranceMs : options.msPerBeat!) : 0
   /** Off-time cost of pairing drill note a with played note b after the pairing pa–pb (0-based canonical indices). */
   const uneven = (a: number, b: number, pa: number, pb: number): number => {
-    if (msPerBeat === null || pa < 0 || pb < 0) return 0
-    const off = Math.abs(pOn[b]! - pOn[pb]! - msPerBeat * (tBeat[a]! - tBeat[pa]!))
-    return Math.min(TIME_MAX, Math.round((TIME_MAX * off) / tolerance))
+    if (!timed || pa < 0 || pb < 0) return 0
+    const off = Math.abs(pOn[b]! - pOn[pb]! - (tMs[a]! - tMs[pa]!))
+    return Math.min(TIME_MAX, (off * perMs + 0.5) | 0)
   }
   /** Whether drill notes i-2, i-1 (1-based i) may be matched crosswise with played notes j-2, j-1. */
   const mayCross = (i: number, j: number): boolean => grouped[j - 1] === 1
@@ -136,8 +138,8 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
   const traceG = new Uint8Array(cells)
   const lastTargetG = new Int32Array(cells).fill(-1)
   const lastPlayedG = new Int32Array(cells).fill(-1)
-  /** Enter G at `here` from cell `from` (reached at row i', column j'); returns the cost. */
-  const gapFrom = (here: number, from: number, fi: number, fj: number, viaUp: boolean): number => {
+  /** Enter G at `here` from cell `from` (which is at row fi, column fj). */
+  const gapFrom = (here: number, from: number, fi: number, fj: number, viaUp: boolean): void => {
     const fromM = costM[from]!
     const fromG = costG[from]!
     const cost = Math.min(fromM, fromG) + GAP
@@ -148,7 +150,6 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
       lastTargetG[here] = m ? fi - 1 : lastTargetG[from]!
       lastPlayedG[here] = m ? fj - 1 : lastPlayedG[from]!
     }
-    return cost
   }
   const cell = (i: number, j: number): number => (j < lo[i]! || j > hi[i]! ? -1 : rowStart[i]! - lo[i]! + j)
 
@@ -160,28 +161,34 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
   for (let i = 1; i <= n; i++) {
     const midi = tMidi[i - 1]!
     const before = i > 1 ? tMidi[i - 2]! : -1
-    for (let j = lo[i]!; j <= hi[i]!; j++) {
-      const here = cell(i, j)
-      const up = cell(i - 1, j)
-      if (up >= 0) gapFrom(here, up, i - 1, j, true)
+    const base = rowStart[i]! - lo[i]!
+    const first = lo[i]!
+    // Bands only move right, so the row above covers this row's start.
+    const upBase = rowStart[i - 1]! - lo[i - 1]!
+    const upLo = lo[i - 1]!
+    const upHi = hi[i - 1]!
+    for (let j = first; j <= hi[i]!; j++) {
+      const here = base + j
+      if (j <= upHi) gapFrom(here, upBase + j, i - 1, j, true)
       if (j === 0) continue
-      const left = cell(i, j - 1)
-      if (left >= 0) gapFrom(here, left, i, j - 1, false)
-      const diagonal = cell(i - 1, j - 1)
-      if (diagonal >= 0) {
+      if (j > first) gapFrom(here, here - 1, i, j - 1, false)
+      if (j - 1 >= upLo && j - 1 <= upHi) {
+        const diagonal = upBase + j - 1
         const pitch = pMidi[j - 1] === midi ? 0 : SUBSTITUTE
         const fromM = costM[diagonal]! + pitch + uneven(i - 1, j - 1, i - 2, j - 2)
         const fromG = costG[diagonal]! + pitch + uneven(i - 1, j - 1, lastTargetG[diagonal]!, lastPlayedG[diagonal]!)
         costM[here] = Math.min(fromM, fromG)
         traceM[here] = fromM < fromG ? DIAGONAL_FROM_M : DIAGONAL_FROM_G
       }
-      const crossed = j > 1 && before !== -1 ? cell(i - 2, j - 2) : -1
-      if (crossed >= 0 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before && mayCross(i, j)) {
-        const fromM = costM[crossed]!
-        const fromG = costG[crossed]!
-        if (Math.min(fromM, fromG) < costM[here]!) {
-          costM[here] = Math.min(fromM, fromG)
-          traceM[here] = fromM < fromG ? SWAP_FROM_M : SWAP_FROM_G
+      if (j > 1 && before !== -1 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before && mayCross(i, j)) {
+        const crossed = cell(i - 2, j - 2)
+        if (crossed >= 0) {
+          const fromM = costM[crossed]!
+          const fromG = costG[crossed]!
+          if (Math.min(fromM, fromG) < costM[here]!) {
+            costM[here] = Math.min(fromM, fromG)
+            traceM[here] = fromM < fromG ? SWAP_FROM_M : SWAP_FROM_G
+          }
         }
       }
     }

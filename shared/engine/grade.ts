@@ -147,6 +147,8 @@ function fitOnsets(targets: Target[], matched: (PlayedNote | null)[]): { xs: num
  */
 function alignWithTime(targets: Target[], played: PlayedNote[], step: number | null): Alignment {
   const first = alignNotes(targets, played)
+  // Without a missed or an extra note there is nothing for time to settle.
+  if (first.counts.missed === 0 && first.counts.extra === 0) return first
   const { line } = fitOnsets(targets, first.match.map(k => (k === null ? null : played[k]!)))
   if (!line || !step) return first
   return alignNotes(targets, played, { msPerBeat: line.slope, toleranceMs: line.slope * step })
