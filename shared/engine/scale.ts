@@ -83,6 +83,9 @@ export interface ScaleFingering {
 
 const FINGERS: readonly Finger[] = [1, 2, 3, 4, 5]
 
+/** A cost over a few notes of the line, given the finger of each. */
+type Cost = (finger: (i: number) => Finger) => number
+
 /**
  * The pattern, one finger per pitch class, whose line costs least under the model plus the scale
  * conventions. Every cost of the line depends on at most three neighbouring pitch classes (a step joins
@@ -106,7 +109,7 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
     return phases[notes[0]!]!
   }
   // Adds a cost over some notes to the window that holds their classes; `free` notes take their best allowed finger.
-  const addTerm = (notes: number[], cost: (finger: (i: number) => Finger) => number): void => {
+  const addTerm = (notes: number[], cost: Cost): void => {
     const centre = fit(notes)
     const window = windows[centre]!
     for (let j = 0; j < 125; j++) {
@@ -127,27 +130,43 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
   }
   const n = keys.length
   const index5 = (f: Finger): number => f - 1
-  const pairCost = (i: number) => (finger: (i: number) => Finger): number =>
+  const pairCost = (i: number): Cost => finger =>
     model.pair(keys[i - 1]!, keys[i]!)[index5(finger(i - 1)) * 5 + index5(finger(i))]!
-  const tripleCost = (i: number) => (finger: (i: number) => Finger): number =>
+  const tripleCost = (i: number): Cost => finger =>
     model.triple(keys[i - 2]!, keys[i - 1]!, keys[i]!)[(index5(finger(i - 2)) * 5 + index5(finger(i - 1))) * 5 + index5(finger(i))]!
-  const firstCost = (finger: (i: number) => Finger): number => model.first(keys[0]!)[index5(finger(0))]!
-  // A free edge's terms go together, so that its finger is chosen once for all of them.
-  const edgeTerms = new Map<number, ((finger: (i: number) => Finger) => number)[]>()
-  const edgeNotes = new Map<number, Set<number>>()
-  const term = (notes: number[], cost: (finger: (i: number) => Finger) => number): void => {
+  const firstCost: Cost = finger => model.first(keys[0]!)[index5(finger(0))]!
+  // A free edge's terms go together, so that its finger is chosen once for all of them. Terms repeat
+  // with every octave and every turn of the run: a term (or an edge's group) is fixed by its notes'
+  // classes and the steps between them, so each distinct one is added once, times its repetitions.
+  // A number per shape: each note's class (below 12) and step from the one before (−2 … 2) in base 80, then the count.
+  const shapeOf = (notes: number[]): number =>
+    notes.reduce((code, i, j) => code * 80 + phases[i]! * 5 + (j === 0 ? 0 : keys[i]! - keys[notes[j - 1]!]! + 2), 0) * 8 + notes.length
+  const repeated = new Map<number, { notes: number[], cost: Cost, count: number }>()
+  const count = (shape: number, notes: number[], cost: Cost): void => {
+    const seen = repeated.get(shape)
+    if (seen) seen.count++
+    else repeated.set(shape, { notes, cost, count: 1 })
+  }
+  const edgeTerms = new Map<number, { notes: Set<number>, costs: Cost[] }>()
+  const term = (notes: number[], cost: Cost): void => {
     const edge = notes.find(i => free[i])
-    if (edge === undefined) return addTerm(notes, cost)
-    edgeTerms.set(edge, [...(edgeTerms.get(edge) ?? []), cost])
-    edgeNotes.set(edge, new Set([...(edgeNotes.get(edge) ?? []), ...notes]))
+    if (edge === undefined) return count(shapeOf(notes), notes, cost)
+    const group = edgeTerms.get(edge) ?? { notes: new Set<number>(), costs: [] }
+    for (const i of notes) group.notes.add(i)
+    group.costs.push(cost)
+    edgeTerms.set(edge, group)
   }
   term([0], firstCost)
   for (let i = 1; i < n; i++) term([i - 1, i], pairCost(i))
   for (let i = 2; i < n; i++) term([i - 2, i - 1, i], tripleCost(i))
-  for (const [edge, costs] of edgeTerms) {
-    const notes = [...edgeNotes.get(edge)!]
-    addTerm(notes, finger => costs.reduce((sum, cost) => sum + cost(finger), 0))
+  for (const [edge, group] of edgeTerms) {
+    const notes = [...group.notes].sort((a, b) => a - b)
+    // Negative, so that an edge's group never shares a number with a single term; the edge's place and
+    // whether it opens the line (and so has the first note's cost) complete its shape.
+    const shape = -((shapeOf(notes) * 8 + edge - notes[0]!) * 2 + (edge === 0 ? 1 : 0))
+    count(shape, notes, finger => group.costs.reduce((sum, cost) => sum + cost(finger), 0))
   }
+  for (const { notes, cost, count } of repeated.values()) addTerm(notes, finger => count * cost(finger))
   addConventions(windows, phases, classes)
   const pattern = cheapestCycle(windows)
   const fingerAt = (i: number): Finger => pattern[phases[i]!]!
