@@ -131,6 +131,8 @@ ensure_chromium() {
 SERVER_PID=""
 serve_app() {
   local out="$1" port="$2" logfile="${3:-/dev/stderr}" host="${HOST:-127.0.0.1}"
+  # Something else answering there would pass the health check below in its place.
+  ! wait_http "http://$host:$port/api/health" || die "port $port is already in use: stop what runs there or choose another port (PORT / TEST_PORT)"
   HOST="$host" PORT="$port" NITRO_HOST="$host" NITRO_PORT="$port" node "$out/server/index.mjs" >"$logfile" 2>&1 &
   SERVER_PID=$!
   for _ in $(seq 1 150); do
