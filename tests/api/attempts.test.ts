@@ -80,6 +80,12 @@ describe('POST /api/attempts', () => {
     expect(res.body.message).toMatch(message)
   })
 
+  it('refuses a body over 2 MB with 413 before reading it', async () => {
+    const res = await noor.request('POST', '/api/attempts', undefined, JSON.stringify({ ...attemptBody(), deviceName: 'x'.repeat(2_200_000) }))
+    expect(res.status).toBe(413)
+    expect(res.body.message).toMatch(/^body:/)
+  })
+
   it('refuses another student reusing an attempt id, and hides the attempt from them', async () => {
     const body = attemptBody()
     expect((await noor.post('/api/attempts', body)).status).toBe(201)
