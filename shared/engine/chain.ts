@@ -110,90 +110,130 @@ export function pathCost(lattice: Lattice, path: number[]): number {
   return total
 }
 
-function logSumExp(values: Float64Array, length: number): number {
+/** log Σ exp(values[from + k · stride]) over k < count, shifted by the largest term so that nothing overflows. */
+function logSumExp(values: Float64Array, from: number, count: number, stride: number): number {
   let max = -Infinity
-  for (let i = 0; i < length; i++) if (values[i]! > max) max = values[i]!
-  if (max === -Infinity || !Number.isFinite(max)) return max
+  for (let k = 0, j = from; k < count; k++, j += stride) if (values[j]! > max) max = values[j]!
+  if (!Number.isFinite(max)) return max
   let sum = 0
-  for (let i = 0; i < length; i++) sum += Math.exp(values[i]! - max)
+  for (let k = 0, j = from; k < count; k++, j += stride) sum += Math.exp(values[j]! - max)
   return max + Math.log(sum)
+}
+
+interface TripleWeights { temperature: number, shift: number, weights: Float64Array }
+
+const NO_TRIPLE: { shift: number, weights: Float64Array | null } = { shift: 0, weights: null }
+
+const tripleWeightCache = new WeakMap<ArrayLike<number>, TripleWeights>()
+
+/**
+ * A triple table as linear weights exp(−(cost − least) / temperature), with least / temperature as
+ * `shift`. Kept per table, because a line's lattice hands out the same few model tables again and
+ * again, so their exponentials are taken once rather than at every note. Measured from the least cost,
+ * every weight stays representable unless a table spans more than about 1,400 temperatures.
+ */
+function tripleWeights(triple: ArrayLike<number>, temperature: number): TripleWeights {
+  const cached = tripleWeightCache.get(triple)
+  if (cached && cached.temperature === temperature) return cached
+  let least = Infinity
+  for (let j = 0; j < triple.length; j++) least = Math.min(least, triple[j]!)
+  const weights = new Float64Array(triple.length)
+  for (let j = 0; j < triple.length; j++) weights[j] = Math.exp(-(triple[j]! - least) / temperature)
+  const made = { temperature, shift: least / temperature, weights }
+  tripleWeightCache.set(triple, made)
+  return made
 }
 
 /**
  * Posterior probability of every option of every item when a path's probability is proportional to
- * exp(−cost / temperature) (forward–backward over the same state pairs).
+ * exp(−cost / temperature) (forward–backward over the same state pairs, in log space so that long
+ * lines neither underflow nor overflow). All items' states live in one flat array, item i ≥ 1 at
+ * offsets[i] with its state (b, c) at b · sizes[i] + c (item 0 at 0, one state per option). A sum
+ * that takes a triple term is done in linear space relative to its largest state, with the triple's
+ * cached weights: one exponential per state instead of one per state and option, and since the
+ * largest state's term is a weight measured from the table's least cost, the sum cannot vanish.
  */
 export function optionPosteriors(lattice: Lattice, temperature: number): Float64Array[] {
   const n = lattice.sizes.length
   if (n === 0) return []
-  const size = (i: number): number => lattice.sizes[i]!
+  const sizes = Int32Array.from(lattice.sizes)
+  const offsets = new Int32Array(n + 1)
+  offsets[1] = sizes[0]!
+  for (let i = 1; i < n; i++) offsets[i + 1] = offsets[i]! + sizes[i - 1]! * sizes[i]!
+  const alpha = new Float64Array(offsets[n]!)
+  // Both passes read every pair table, so each is fetched from the lattice once, into the states' layout.
+  const pairs = new Float64Array(offsets[n]!)
   const first = lattice.first()
-  const alpha: Float64Array[] = []
-  const a0 = new Float64Array(size(0))
-  for (let c = 0; c < size(0); c++) a0[c] = -first[c]! / temperature
-  alpha.push(a0)
+  for (let c = 0; c < sizes[0]!; c++) alpha[c] = -first[c]! / temperature
   let maxSize = 1
-  for (let i = 0; i < n; i++) maxSize = Math.max(maxSize, size(i))
+  for (let i = 0; i < n; i++) maxSize = Math.max(maxSize, sizes[i]!)
   const scratch = new Float64Array(maxSize)
   for (let i = 1; i < n; i++) {
-    const sb = size(i - 1)
-    const sc = size(i)
-    const pair = lattice.pair(i)
-    const here = new Float64Array(sb * sc)
-    if (i === 1) {
-      for (let b = 0; b < sb; b++) for (let c = 0; c < sc; c++) here[b * sc + c] = a0[b]! - pair[b * sc + c]! / temperature
-    }
-    else {
-      const sa = size(i - 2)
-      const triple = lattice.triple(i)
-      const before = alpha[i - 1]!
-      for (let b = 0; b < sb; b++) {
-        for (let c = 0; c < sc; c++) {
-          for (let a = 0; a < sa; a++) scratch[a] = before[a * sb + b]! - (triple ? triple[(a * sb + b) * sc + c]! : 0) / temperature
-          here[b * sc + c] = logSumExp(scratch, sa) - pair[b * sc + c]! / temperature
-        }
+    const sb = sizes[i - 1]!
+    const sc = sizes[i]!
+    const here = offsets[i]!
+    pairs.set(lattice.pair(i), here)
+    const sa = i >= 2 ? sizes[i - 2]! : 1
+    const before = i >= 2 ? offsets[i - 1]! : 0
+    const triple = i >= 2 ? lattice.triple(i) : null
+    const { shift, weights } = triple ? tripleWeights(triple, temperature) : NO_TRIPLE
+    for (let b = 0; b < sb; b++) {
+      let max = -Infinity
+      for (let a = 0; a < sa; a++) max = Math.max(max, alpha[before + a * sb + b]!)
+      if (!weights || !Number.isFinite(max)) {
+        const into = logSumExp(alpha, before + b, sa, sb)
+        for (let c = 0; c < sc; c++) alpha[here + b * sc + c] = into - pairs[here + b * sc + c]! / temperature
+        continue
+      }
+      for (let a = 0; a < sa; a++) scratch[a] = Math.exp(alpha[before + a * sb + b]! - max)
+      for (let c = 0; c < sc; c++) {
+        let sum = 0
+        for (let a = 0; a < sa; a++) sum += scratch[a]! * weights[(a * sb + b) * sc + c]!
+        alpha[here + b * sc + c] = max - shift + Math.log(sum) - pairs[here + b * sc + c]! / temperature
       }
     }
-    alpha.push(here)
   }
-  // beta[i] has the shape of alpha[i]: the log weight of everything after item i given its state.
-  const beta: Float64Array[] = new Array(n)
-  beta[n - 1] = new Float64Array(alpha[n - 1]!.length)
+  // beta has the shape of alpha: the log weight of everything after item i given its state.
+  const beta = new Float64Array(offsets[n]!)
   for (let i = n - 1; i >= 1; i--) {
-    const sb = size(i - 1)
-    const sc = size(i)
-    const pair = lattice.pair(i)
-    const after = beta[i]!
-    if (i === 1) {
-      const b0 = new Float64Array(sb)
-      for (let b = 0; b < sb; b++) {
-        for (let c = 0; c < sc; c++) scratch[c] = -pair[b * sc + c]! / temperature + after[b * sc + c]!
-        b0[b] = logSumExp(scratch, sc)
+    const sb = sizes[i - 1]!
+    const sc = sizes[i]!
+    const here = offsets[i]!
+    const sa = i >= 2 ? sizes[i - 2]! : 1
+    const out = i >= 2 ? offsets[i - 1]! : 0
+    const triple = i >= 2 ? lattice.triple(i) : null
+    const { shift, weights } = triple ? tripleWeights(triple, temperature) : NO_TRIPLE
+    for (let b = 0; b < sb; b++) {
+      let max = -Infinity
+      for (let c = 0; c < sc; c++) {
+        scratch[c] = -pairs[here + b * sc + c]! / temperature + beta[here + b * sc + c]!
+        max = Math.max(max, scratch[c]!)
       }
-      beta[0] = b0
-      continue
-    }
-    const sa = size(i - 2)
-    const triple = lattice.triple(i)
-    const out = new Float64Array(sa * sb)
-    for (let a = 0; a < sa; a++) {
-      for (let b = 0; b < sb; b++) {
-        for (let c = 0; c < sc; c++) {
-          scratch[c] = -(pair[b * sc + c]! + (triple ? triple[(a * sb + b) * sc + c]! : 0)) / temperature + after[b * sc + c]!
-        }
-        out[a * sb + b] = logSumExp(scratch, sc)
+      if (!weights || !Number.isFinite(max)) {
+        // Without a triple term the weight after item i does not depend on the option at item i − 2.
+        const whole = logSumExp(scratch, 0, sc, 1)
+        for (let a = 0; a < sa; a++) beta[out + a * sb + b] = whole
+        continue
+      }
+      for (let c = 0; c < sc; c++) scratch[c] = Math.exp(scratch[c]! - max)
+      for (let a = 0; a < sa; a++) {
+        let sum = 0
+        for (let c = 0; c < sc; c++) sum += scratch[c]! * weights[(a * sb + b) * sc + c]!
+        beta[out + a * sb + b] = max - shift + Math.log(sum)
       }
     }
-    beta[i - 1] = out
   }
-  return alpha.map((al, i) => {
-    const sc = size(i)
-    const be = beta[i]!
-    const joint = new Float64Array(al.length)
-    for (let j = 0; j < al.length; j++) joint[j] = al[j]! + be[j]!
-    const z = logSumExp(joint, joint.length)
+  const joint = new Float64Array(maxSize * maxSize)
+  const marginals: Float64Array[] = new Array(n)
+  for (let i = 0; i < n; i++) {
+    const sc = sizes[i]!
+    const from = offsets[i]!
+    const length = offsets[i + 1]! - from
+    for (let j = 0; j < length; j++) joint[j] = alpha[from + j]! + beta[from + j]!
+    const z = logSumExp(joint, 0, length, 1)
     const marginal = new Float64Array(sc)
-    for (let j = 0; j < joint.length; j++) marginal[j % sc] = marginal[j % sc]! + (Number.isFinite(z) ? Math.exp(joint[j]! - z) : 0)
-    return marginal
-  })
+    if (Number.isFinite(z)) for (let j = 0; j < length; j++) marginal[j % sc] = marginal[j % sc]! + Math.exp(joint[j]! - z)
+    marginals[i] = marginal
+  }
+  return marginals
 }

@@ -2,7 +2,7 @@
 import { cheapestPath, optionPosteriors, type Lattice } from './chain'
 import { costModel, fitsPosition, PERFORMANCE_WEIGHTS, positionStarts, type Touch } from './ergonomics'
 import { chosenTouches, lineLattice, type LineLattice } from './lattice'
-import { pairSpan, MAX_PRAC, MIN_PRAC, spanTable, type SpanRow } from './spans'
+import { pairSpan, MAX_PRAC, MIN_PRAC, type SpanRow } from './spans'
 import { fingersForItems } from './suggest'
 import { toRightHandSpace } from './touches'
 import type { Finger, Hand, HandSize, LineItem } from './types'
@@ -86,6 +86,37 @@ function moveOf(table: SpanRow[][], from: Touch[], to: Touch[]): Move {
   return to.every(t => from.every(h => fitsPosition(table, h, t))) ? 'inPosition' : 'shift'
 }
 
+const MOVES: readonly Move[] = ['inPosition', 'crossing', 'shift', 'sameFinger', 'repeat']
+const FINGERS: readonly Finger[] = [1, 2, 3, 4, 5]
+
+/** Beyond this many semitones no finger pair of any hand size reaches, so every larger interval moves alike. */
+const FARTHEST_MOVE = 64
+
+const singleMoves = new WeakMap<SpanRow[][], (Uint8Array | undefined)[]>()
+
+/**
+ * The move (index into MOVES) between two single notes at [(fa − 1) · 5 + fb − 1]. It depends only on
+ * the interval, so each span table keeps one small table per interval instead of judging every pair of
+ * every attempt again.
+ */
+function singleNoteMoves(table: SpanRow[][], interval: number): Uint8Array {
+  let byInterval = singleMoves.get(table)
+  if (!byInterval) {
+    byInterval = new Array(2 * FARTHEST_MOVE + 1)
+    singleMoves.set(table, byInterval)
+  }
+  const d = Math.max(-FARTHEST_MOVE, Math.min(FARTHEST_MOVE, interval))
+  let moves = byInterval[d + FARTHEST_MOVE]
+  if (!moves) {
+    moves = new Uint8Array(25)
+    for (const fa of FINGERS) {
+      for (const fb of FINGERS) moves[(fa - 1) * 5 + fb - 1] = MOVES.indexOf(moveOf(table, [{ f: fa, k: 0 }], [{ f: fb, k: d }]))
+    }
+    byInterval[d + FARTHEST_MOVE] = moves
+  }
+  return moves
+}
+
 interface Timing { detached: number | null, connected: number | null, late: number | null }
 
 function timingOf(items: Item[]): Timing[] {
@@ -120,42 +151,62 @@ function moveLogLikelihood(move: Move, t: Timing): number {
   return ll
 }
 
-/** Per item and option: the velocity evidence, in cost units (−TEMPERATURE · log-likelihood). */
-function thumbEvidence(base: LineLattice, items: Item[], noteKeys: number[], accents: number[]): Float64Array[] {
-  return base.options.map((options, i) => {
-    const accentOfKey = base.keys[i]!.map((k) => {
-      const here = items[i]!.notes.filter(n => noteKeys[n] === k).map(n => accents[n]!)
-      return here.length > 0 ? Math.max(...here) : 0.5
-    })
-    return Float64Array.from(options, (fingers) => {
-      let ll = 0
-      fingers.forEach((f, j) => { ll += softLog(accentOfKey[j]!, f === 1 ? P_ACCENT_THUMB : P_ACCENT_OTHER) })
-      return -TEMPERATURE * ll
-    })
-  })
+/** Per option of item i: the velocity evidence, in cost units (−TEMPERATURE · log-likelihood). */
+function thumbEvidence(base: LineLattice, item: Item, i: number, noteKeys: number[], accents: number[]): Float64Array {
+  const keys = base.keys[i]!
+  // Every key comes from one of the item's notes, so each gets the loudest of its notes.
+  const accentOfKey = keys.map(() => -Infinity)
+  for (const n of item.notes) {
+    const j = keys.indexOf(noteKeys[n]!)
+    accentOfKey[j] = Math.max(accentOfKey[j]!, accents[n]!)
+  }
+  const options = base.options[i]!
+  const evidence = new Float64Array(options.length)
+  for (let o = 0; o < options.length; o++) {
+    let ll = 0
+    for (let j = 0; j < keys.length; j++) ll += softLog(accentOfKey[j]!, options[o]![j] === 1 ? P_ACCENT_THUMB : P_ACCENT_OTHER)
+    evidence[o] = -TEMPERATURE * ll
+  }
+  return evidence
 }
 
-/** The ergonomic lattice with the evidence added to each option, in cost units. */
-function withEvidence(base: LineLattice, table: SpanRow[][], items: Item[], velocity: Float64Array[]): Lattice {
+/**
+ * The ergonomic lattice with the evidence added to each option, in cost units. Every table is built
+ * once here, since the search and both passes of the posteriors read each of them.
+ */
+function withEvidence(base: LineLattice, table: SpanRow[][], items: Item[], noteKeys: number[], accents: number[]): Lattice {
   const timings = timingOf(items)
-  const touches = (i: number, option: number): Touch[] => base.keys[i]!.map((k, j) => ({ f: base.options[i]![option]![j]!, k }))
-  return {
-    sizes: base.sizes,
-    first: () => Float64Array.from(base.first(), (cost, o) => cost + velocity[0]![o]!),
-    pair(i) {
-      const costs = Float64Array.from(base.pair(i))
-      const sc = base.sizes[i]!
-      for (let b = 0; b < base.sizes[i - 1]!; b++) {
-        const from = touches(i - 1, b)
+  const touchesOf = (i: number): Touch[][] => base.options[i]!.map(fingers => base.keys[i]!.map((k, j) => ({ f: fingers[j]!, k })))
+  const first = Float64Array.from(base.first())
+  const velocity0 = thumbEvidence(base, items[0]!, 0, noteKeys, accents)
+  for (let o = 0; o < first.length; o++) first[o] = first[o]! + velocity0[o]!
+  const pairs: Float64Array[] = new Array(items.length)
+  const moveCost = new Float64Array(MOVES.length)
+  for (let i = 1; i < items.length; i++) {
+    const velocity = thumbEvidence(base, items[i]!, i, noteKeys, accents)
+    for (let m = 0; m < MOVES.length; m++) moveCost[m] = TEMPERATURE * moveLogLikelihood(MOVES[m]!, timings[i]!)
+    const costs = Float64Array.from(base.pair(i))
+    const sb = base.sizes[i - 1]!
+    const sc = base.sizes[i]!
+    const keysB = base.keys[i - 1]!
+    const keysC = base.keys[i]!
+    if (keysB.length === 1 && keysC.length === 1) {
+      const moves = singleNoteMoves(table, keysC[0]! - keysB[0]!)
+      for (let j = 0; j < sb * sc; j++) costs[j] = costs[j]! + velocity[j % sc]! - moveCost[moves[j]!]!
+    }
+    else {
+      const from = touchesOf(i - 1)
+      const to = touchesOf(i)
+      for (let b = 0; b < sb; b++) {
         for (let c = 0; c < sc; c++) {
-          const move = moveOf(table, from, touches(i, c))
-          costs[b * sc + c] = costs[b * sc + c]! + velocity[i]![c]! - TEMPERATURE * moveLogLikelihood(move, timings[i]!)
+          const move = MOVES.indexOf(moveOf(table, from[b]!, to[c]!))
+          costs[b * sc + c] = costs[b * sc + c]! + velocity[c]! - moveCost[move]!
         }
       }
-      return costs
-    },
-    triple: i => base.triple(i),
+    }
+    pairs[i] = costs
   }
+  return { sizes: base.sizes, first: () => first, pair: i => pairs[i]!, triple: i => base.triple(i) }
 }
 
 export function inferFingering(hand: Hand, notes: PerformedNote[], handSize: HandSize = 'medium'): InferResult {
@@ -163,9 +214,9 @@ export function inferFingering(hand: Hand, notes: PerformedNote[], handSize: Han
   const items = groupChords(notes)
   const noteKeys = notes.map(n => toRightHandSpace(hand, n.midi))
   const keys = items.map(item => [...new Set(item.notes.map(n => noteKeys[n]!))].sort((a, b) => a - b))
-  const base = lineLattice(keys, costModel(handSize, PERFORMANCE_WEIGHTS))
-  const velocity = thumbEvidence(base, items, noteKeys, accentsOf(notes))
-  const lattice = withEvidence(base, spanTable(handSize), items, velocity)
+  const model = costModel(handSize, PERFORMANCE_WEIGHTS)
+  const base = lineLattice(keys, model)
+  const lattice = withEvidence(base, model.table, items, noteKeys, accentsOf(notes))
   const { path } = cheapestPath(lattice)
   const posteriors = optionPosteriors(lattice, TEMPERATURE)
   const chosen = chosenTouches(base, path)
