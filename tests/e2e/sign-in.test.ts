@@ -27,6 +27,8 @@ describe('signing in', () => {
     await browser.page.waitForURL(/\/teacher$/)
     await expect.poll(() => browser.page.getByTestId('class-card').count()).toBe(2)
     expect(await browser.page.getByText('Tuesday Starters').first().isVisible()).toBe(true)
+    await browser.page.getByTestId('class-card').filter({ hasText: 'Tuesday Starters' }).getByRole('link', { name: 'See progress' }).click()
+    await expect.poll(() => browser.page.getByTestId('progress-table').locator('tbody tr').count()).toBe(3)
     await browser.page.getByRole('button', { name: 'Sign out' }).click()
     await browser.page.waitForURL(/\/login/)
   })
