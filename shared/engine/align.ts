@@ -93,28 +93,145 @@ function playedOrder(played: readonly AlignPlayed[], windowMs: number): { order:
   return { order, grouped }
 }
 
+/** Both sides in canonical order, as the programme reads them. */
+interface Lines {
+  tMidi: Int32Array
+  pMidi: Int32Array
+  tBeat: Float64Array
+  pOn: Float64Array
+  /** Each drill note's written time in ms at the played tempo (all 0 without one). */
+  tMs: Float64Array
+  /** Cost units per ms off; 0 when intervals are not compared. */
+  perMs: number
+  /** Whether a played note shares a chord-window group with the one before. */
+  grouped: Uint8Array
+}
+
+/**
+ * The programme's two layers over the band, cell (i, j) at rowStart[i] − lo[i] + j: the best cost of
+ * aligning the first i drill and j played notes ending in a pairing (M) or in a missed or extra note
+ * (G), so that an interval is judged between two pairings that really follow each other on the chosen
+ * path. G carries that path's last pairing across the gap.
+ */
+interface Band {
+  lo: Int32Array
+  hi: Int32Array
+  rowStart: Int32Array
+  costM: Int32Array
+  costG: Int32Array
+  traceM: Uint8Array
+  traceG: Uint8Array
+  lastTargetG: Int32Array
+  lastPlayedG: Int32Array
+}
+
+/** A value of each item in the given order (TypedArray.from with a mapping function is several times slower). */
+function inOrder<A extends Int32Array | Float64Array>(out: A, order: readonly number[], value: (index: number) => number): A {
+  for (let k = 0; k < order.length; k++) out[k] = value(order[k]!)
+  return out
+}
+
+function cellOf(band: Band, i: number, j: number): number {
+  return j < band.lo[i]! || j > band.hi[i]! ? -1 : band.rowStart[i]! - band.lo[i]! + j
+}
+
+/** Off-time cost of pairing drill note a with played note b after the pairing pa–pb (0-based canonical indices). */
+function offTime(lines: Lines, a: number, b: number, pa: number, pb: number): number {
+  if (lines.perMs === 0 || pa < 0 || pb < 0) return 0
+  const off = Math.abs(lines.pOn[b]! - lines.pOn[pb]! - (lines.tMs[a]! - lines.tMs[pa]!))
+  return Math.min(TIME_MAX, (off * lines.perMs + 0.5) | 0)
+}
+
+/** Whether drill notes i-2, i-1 (1-based i) may be matched crosswise with played notes j-2, j-1. */
+function mayCross(lines: Lines, i: number, j: number): boolean {
+  return lines.grouped[j - 1] === 1
+    || (lines.tBeat[i - 1] === lines.tBeat[i - 2] && lines.pOn[j - 1]! - lines.pOn[j - 2]! <= HANDS_TOGETHER_MS)
+}
+
+/** Enter G at `here` from cell `from`, whose own pairing, if it ends in one, is drill note fromTarget with played note fromPlayed. */
+function enterGap(band: Band, here: number, from: number, fromTarget: number, fromPlayed: number, up: boolean): void {
+  const fromM = band.costM[from]!
+  const fromG = band.costG[from]!
+  const cost = Math.min(fromM, fromG) + GAP
+  if (cost < band.costG[here]!) {
+    band.costG[here] = cost
+    const m = fromM < fromG
+    band.traceG[here] = up ? (m ? UP_FROM_M : UP_FROM_G) : (m ? LEFT_FROM_M : LEFT_FROM_G)
+    band.lastTargetG[here] = m ? fromTarget : band.lastTargetG[from]!
+    band.lastPlayedG[here] = m ? fromPlayed : band.lastPlayedG[from]!
+  }
+}
+
+/**
+ * Fills both layers row by row. Kept apart from alignNotes, with its helpers at module level, so that
+ * no closure captures the arrays and the engine keeps them in registers over the hot loop.
+ */
+function fillBand(band: Band, lines: Lines): void {
+  const { lo, hi, rowStart, costM, costG, traceM, lastTargetG, lastPlayedG } = band
+  const { tMidi, pMidi } = lines
+  for (let j = 0; j <= hi[0]!; j++) {
+    costG[j] = j * GAP
+    band.traceG[j] = LEFT_FROM_G
+  }
+  // Row 0 has no pairing, so a pairing after it is judged against none.
+  for (let i = 1; i < lo.length; i++) {
+    const midi = tMidi[i - 1]!
+    const before = i > 1 ? tMidi[i - 2]! : -1
+    const base = rowStart[i]! - lo[i]!
+    const first = lo[i]!
+    const last = hi[i]!
+    // Bands only move right, so the row above covers this row's start.
+    const upBase = rowStart[i - 1]! - lo[i - 1]!
+    const upLo = lo[i - 1]!
+    const upHi = hi[i - 1]!
+    for (let j = first; j <= last; j++) {
+      const here = base + j
+      if (j <= upHi) enterGap(band, here, upBase + j, i - 2, j - 1, true)
+      if (j === 0) continue
+      if (j > first) enterGap(band, here, here - 1, i - 1, j - 2, false)
+      if (j - 1 >= upLo && j - 1 <= upHi) {
+        const diagonal = upBase + j - 1
+        const pitch = pMidi[j - 1] === midi ? 0 : SUBSTITUTE
+        const fromM = costM[diagonal]! + pitch + offTime(lines, i - 1, j - 1, i - 2, j - 2)
+        const fromG = costG[diagonal]! + pitch + offTime(lines, i - 1, j - 1, lastTargetG[diagonal]!, lastPlayedG[diagonal]!)
+        costM[here] = Math.min(fromM, fromG)
+        traceM[here] = fromM < fromG ? DIAGONAL_FROM_M : DIAGONAL_FROM_G
+      }
+      if (j > 1 && before !== -1 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before && mayCross(lines, i, j)) {
+        const crossed = cellOf(band, i - 2, j - 2)
+        if (crossed >= 0) {
+          const fromM = costM[crossed]!
+          const fromG = costG[crossed]!
+          if (Math.min(fromM, fromG) < costM[here]!) {
+            costM[here] = Math.min(fromM, fromG)
+            traceM[here] = fromM < fromG ? SWAP_FROM_M : SWAP_FROM_G
+          }
+        }
+      }
+    }
+  }
+}
+
 export function alignNotes(targets: readonly AlignTarget[], played: readonly AlignPlayed[], options: AlignOptions = {}): Alignment {
   const ti = targetOrder(targets)
   const { order: pi, grouped } = playedOrder(played, options.chordWindowMs ?? CHORD_WINDOW_MS)
   const n = ti.length
   const m = pi.length
-  const tMidi = Int32Array.from(ti, i => targets[i]!.midi)
-  const pMidi = Int32Array.from(pi, i => played[i]!.midi)
-  const tBeat = Float64Array.from(ti, i => targets[i]!.beat)
-  const pOn = Float64Array.from(pi, i => played[i]!.onMs)
+  const tMidi = inOrder(new Int32Array(n), ti, i => targets[i]!.midi)
+  const pMidi = inOrder(new Int32Array(m), pi, i => played[i]!.midi)
+  const tBeat = inOrder(new Float64Array(n), ti, i => targets[i]!.beat)
+  const pOn = inOrder(new Float64Array(m), pi, i => played[i]!.onMs)
   const timed = options.msPerBeat !== undefined && options.msPerBeat > 0
-  // Each drill note's written time in ms at the played tempo, and cost units per ms off.
-  const tMs = Float64Array.from(tBeat, b => b * (timed ? options.msPerBeat! : 0))
-  const perMs = timed ? TIME_MAX / (options.toleranceMs && options.toleranceMs > 0 ? options.toleranceMs : options.msPerBeat!) : 0
-  /** Off-time cost of pairing drill note a with played note b after the pairing pa–pb (0-based canonical indices). */
-  const uneven = (a: number, b: number, pa: number, pb: number): number => {
-    if (!timed || pa < 0 || pb < 0) return 0
-    const off = Math.abs(pOn[b]! - pOn[pb]! - (tMs[a]! - tMs[pa]!))
-    return Math.min(TIME_MAX, (off * perMs + 0.5) | 0)
+  const lines: Lines = {
+    tMidi,
+    pMidi,
+    tBeat,
+    pOn,
+    // Each drill note's written time in ms at the played tempo, and cost units per ms off.
+    tMs: tBeat.map(b => b * (timed ? options.msPerBeat! : 0)),
+    perMs: timed ? TIME_MAX / (options.toleranceMs && options.toleranceMs > 0 ? options.toleranceMs : options.msPerBeat!) : 0,
+    grouped,
   }
-  /** Whether drill notes i-2, i-1 (1-based i) may be matched crosswise with played notes j-2, j-1. */
-  const mayCross = (i: number, j: number): boolean => grouped[j - 1] === 1
-    || (tBeat[i - 1] === tBeat[i - 2] && pOn[j - 1]! - pOn[j - 2]! <= HANDS_TOGETHER_MS)
 
   const rows = n + 1
   const width = Math.max(1, Math.min(Math.abs(n - m) + BAND_MARGIN, Math.floor(MAX_CELLS / rows / 2)))
@@ -127,72 +244,21 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
     hi[i] = i === n ? m : Math.min(m, centre + width)
     rowStart[i + 1] = rowStart[i]! + hi[i]! - lo[i]! + 1
   }
-  // Two layers: the best cost of aligning the first i drill and j played notes ending in a
-  // pairing (M) or in a missed or extra note (G), so that an interval is judged between two
-  // pairings that really follow each other on the chosen path. G carries that path's last
-  // pairing across the gap.
   const cells = rowStart[rows]!
-  const costM = new Int32Array(cells).fill(INF)
-  const costG = new Int32Array(cells).fill(INF)
-  const traceM = new Uint8Array(cells)
-  const traceG = new Uint8Array(cells)
-  const lastTargetG = new Int32Array(cells).fill(-1)
-  const lastPlayedG = new Int32Array(cells).fill(-1)
-  /** Enter G at `here` from cell `from` (which is at row fi, column fj). */
-  const gapFrom = (here: number, from: number, fi: number, fj: number, viaUp: boolean): void => {
-    const fromM = costM[from]!
-    const fromG = costG[from]!
-    const cost = Math.min(fromM, fromG) + GAP
-    if (cost < costG[here]!) {
-      costG[here] = cost
-      const m = fromM < fromG
-      traceG[here] = viaUp ? (m ? UP_FROM_M : UP_FROM_G) : (m ? LEFT_FROM_M : LEFT_FROM_G)
-      lastTargetG[here] = m ? fi - 1 : lastTargetG[from]!
-      lastPlayedG[here] = m ? fj - 1 : lastPlayedG[from]!
-    }
+  const band: Band = {
+    lo,
+    hi,
+    rowStart,
+    costM: new Int32Array(cells).fill(INF),
+    costG: new Int32Array(cells).fill(INF),
+    traceM: new Uint8Array(cells),
+    traceG: new Uint8Array(cells),
+    lastTargetG: new Int32Array(cells).fill(-1),
+    lastPlayedG: new Int32Array(cells).fill(-1),
   }
-  const cell = (i: number, j: number): number => (j < lo[i]! || j > hi[i]! ? -1 : rowStart[i]! - lo[i]! + j)
-
-  for (let j = 0; j <= hi[0]!; j++) {
-    costG[j] = j * GAP
-    traceG[j] = LEFT_FROM_G
-  }
-  // Row 0 has no pairing, so a pairing after it is judged against none.
-  for (let i = 1; i <= n; i++) {
-    const midi = tMidi[i - 1]!
-    const before = i > 1 ? tMidi[i - 2]! : -1
-    const base = rowStart[i]! - lo[i]!
-    const first = lo[i]!
-    // Bands only move right, so the row above covers this row's start.
-    const upBase = rowStart[i - 1]! - lo[i - 1]!
-    const upLo = lo[i - 1]!
-    const upHi = hi[i - 1]!
-    for (let j = first; j <= hi[i]!; j++) {
-      const here = base + j
-      if (j <= upHi) gapFrom(here, upBase + j, i - 1, j, true)
-      if (j === 0) continue
-      if (j > first) gapFrom(here, here - 1, i, j - 1, false)
-      if (j - 1 >= upLo && j - 1 <= upHi) {
-        const diagonal = upBase + j - 1
-        const pitch = pMidi[j - 1] === midi ? 0 : SUBSTITUTE
-        const fromM = costM[diagonal]! + pitch + uneven(i - 1, j - 1, i - 2, j - 2)
-        const fromG = costG[diagonal]! + pitch + uneven(i - 1, j - 1, lastTargetG[diagonal]!, lastPlayedG[diagonal]!)
-        costM[here] = Math.min(fromM, fromG)
-        traceM[here] = fromM < fromG ? DIAGONAL_FROM_M : DIAGONAL_FROM_G
-      }
-      if (j > 1 && before !== -1 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before && mayCross(i, j)) {
-        const crossed = cell(i - 2, j - 2)
-        if (crossed >= 0) {
-          const fromM = costM[crossed]!
-          const fromG = costG[crossed]!
-          if (Math.min(fromM, fromG) < costM[here]!) {
-            costM[here] = Math.min(fromM, fromG)
-            traceM[here] = fromM < fromG ? SWAP_FROM_M : SWAP_FROM_G
-          }
-        }
-      }
-    }
-  }
+  fillBand(band, lines)
+  const { costM, costG, traceM, traceG } = band
+  const cell = (i: number, j: number): number => cellOf(band, i, j)
 
   const match: (number | null)[] = Array.from({ length: targets.length }, () => null)
   const outcome: AlignOutcome[] = Array.from({ length: targets.length }, () => 'missed')

@@ -177,7 +177,7 @@ function thumbEvidence(base: LineLattice, item: Item, i: number, noteKeys: numbe
 function withEvidence(base: LineLattice, table: SpanRow[][], items: Item[], noteKeys: number[], accents: number[]): Lattice {
   const timings = timingOf(items)
   const touchesOf = (i: number): Touch[][] => base.options[i]!.map(fingers => base.keys[i]!.map((k, j) => ({ f: fingers[j]!, k })))
-  const first = Float64Array.from(base.first())
+  const first = new Float64Array(base.first())
   const velocity0 = thumbEvidence(base, items[0]!, 0, noteKeys, accents)
   for (let o = 0; o < first.length; o++) first[o] = first[o]! + velocity0[o]!
   const pairs: Float64Array[] = new Array(items.length)
@@ -185,7 +185,7 @@ function withEvidence(base: LineLattice, table: SpanRow[][], items: Item[], note
   for (let i = 1; i < items.length; i++) {
     const velocity = thumbEvidence(base, items[i]!, i, noteKeys, accents)
     for (let m = 0; m < MOVES.length; m++) moveCost[m] = TEMPERATURE * moveLogLikelihood(MOVES[m]!, timings[i]!)
-    const costs = Float64Array.from(base.pair(i))
+    const costs = new Float64Array(base.pair(i))
     const sb = base.sizes[i - 1]!
     const sc = base.sizes[i]!
     const keysB = base.keys[i - 1]!

@@ -66,7 +66,7 @@ function sharedPattern(fingers: Finger[], phases: number[]): Map<number, Finger>
 /** The same lattice of single notes with a cost added to each note's fingers. */
 function withPenalty(lattice: Lattice, penalty: (i: number, finger: Finger) => number): Lattice {
   const penalise = (costs: ArrayLike<number>, i: number): Float64Array => {
-    const out = Float64Array.from(costs)
+    const out = new Float64Array(costs)
     const size = lattice.sizes[i]!
     for (let j = 0; j < out.length; j++) out[j] = out[j]! + penalty(i, ((j % size) + 1) as Finger)
     return out
