@@ -5,6 +5,7 @@ import { inferFingering } from '../shared/engine/infer'
 import { pairNoteEvents } from '../shared/engine/performance'
 import { nameFromMidi } from '../shared/engine/pitch'
 import type { DrillMusic, DrillNote, Finger, PlayedEvent } from '../shared/engine/types'
+import { medianMs } from './timing'
 
 // Right-hand C major over two octaves, up and down (standard fingering, common practice).
 const UP = [60, 62, 64, 65, 67, 69, 71, 72, 74, 76, 77, 79, 81, 83, 84]
@@ -42,24 +43,14 @@ export function benchAttempt(count: number): { drill: DrillMusic, events: Played
   return { drill: { hand: 'right', tempoBpm: 100, notes }, events }
 }
 
-function timeMs(run: () => void, repeats: number): number {
-  const times: number[] = []
-  for (let r = 0; r < repeats; r++) {
-    const start = performance.now()
-    run()
-    times.push(performance.now() - start)
-  }
-  return times.sort((a, b) => a - b)[Math.floor(times.length / 2)]!
-}
-
 export function benchGrade(): void {
   console.log('grading (median of runs, after three warm-ups; "inference" is inferFingering alone on the same notes)')
   for (const [count, repeats] of [[1_000, 21], [10_000, 5], [100_000, 3]] as const) {
     const { drill, events } = benchAttempt(count)
     const performed = pairNoteEvents(events).map(n => ({ midi: n.midi, onMs: n.onMs, offMs: n.offMs, velocity: n.velocity ?? 64 }))
     for (let w = 0; w < 3; w++) gradeAttempt(drill, events)
-    const ms = timeMs(() => gradeAttempt(drill, events), repeats)
-    const inferMs = timeMs(() => inferFingering('right', performed), repeats)
+    const ms = medianMs(() => gradeAttempt(drill, events), repeats)
+    const inferMs = medianMs(() => inferFingering('right', performed), repeats)
     console.log(`  ${String(count).padStart(7)} notes: ${ms.toFixed(2).padStart(9)} ms  ${Math.round(count / (ms / 1000)).toLocaleString('en-GB').padStart(12)} notes/s  (inference ${inferMs.toFixed(2)} ms)`)
   }
 }

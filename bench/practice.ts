@@ -4,16 +4,7 @@
 import { AttemptInput } from '../shared/types/attempt'
 import type { LiveNoteEvent } from '../shared/types/live'
 import { toPlayedEvents } from '../shared/utils/timeline'
-
-function median(run: () => void, repeats: number): number {
-  const times: number[] = []
-  for (let r = 0; r < repeats; r++) {
-    const start = performance.now()
-    run()
-    times.push(performance.now() - start)
-  }
-  return times.sort((a, b) => a - b)[Math.floor(times.length / 2)]!
-}
+import { medianMs } from './timing'
 
 export function benchPractice(): void {
   const count = 20_000
@@ -36,9 +27,9 @@ export function benchPractice(): void {
   }
   const json = JSON.stringify({ attempt })
   console.log(`practice: ${count} events`)
-  console.log(`  toPlayedEvents         ${median(() => toPlayedEvents(raw, 10_000, 120), 15).toFixed(1)} ms`)
-  console.log(`  AttemptInput.parse     ${median(() => AttemptInput.parse(attempt), 15).toFixed(1)} ms`)
-  console.log(`  JSON copy for storage  ${median(() => JSON.stringify({ attempt }), 15).toFixed(1)} ms, ${(json.length / 1024).toFixed(0)} KiB`)
+  console.log(`  toPlayedEvents         ${medianMs(() => toPlayedEvents(raw, 10_000, 120), 15).toFixed(1)} ms`)
+  console.log(`  AttemptInput.parse     ${medianMs(() => AttemptInput.parse(attempt), 15).toFixed(1)} ms`)
+  console.log(`  JSON copy for storage  ${medianMs(() => JSON.stringify({ attempt }), 15).toFixed(1)} ms, ${(json.length / 1024).toFixed(0)} KiB`)
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) benchPractice()

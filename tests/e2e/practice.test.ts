@@ -1,9 +1,9 @@
-import { Note } from 'tonal'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { DrillNote } from '../../shared/types/drill'
 import { openBrowser, signInAs } from '../support/browser'
 import type { BrowserSession } from '../support/browser'
-import { FAKE_MIDI_INPUT_NAME, fakeMidiScript } from '../support/fake-midi'
+import { fakeMidiScript } from '../support/fake-midi'
+import { playDrill } from '../support/practice'
 import { closeTestDb, testDb } from '../support/server'
 
 let browser: BrowserSession
@@ -27,23 +27,8 @@ afterAll(async () => {
   await closeTestDb()
 })
 
-/** The drill's notes as fake MIDI presses at the page's practice tempo, evenly and legato. */
-function performance(bpm: number): { note: number, velocity: number, atMs: number, holdMs: number }[] {
-  const beatMs = 60_000 / bpm
-  return drill.notes.map(n => ({ note: Note.midi(n.pitch)!, velocity: 72, atMs: n.beat * beatMs, holdMs: n.length * beatMs * 0.95 }))
-}
-
-async function openDrillAndPlay(): Promise<void> {
-  const { page } = browser
-  await page.goto(`/practice/${drill.id}?assignment=${assignmentId}`)
-  await page.getByTestId('drill-title').waitFor()
-  await expect.poll(() => page.locator('#midi-input option').allTextContents()).toContain(FAKE_MIDI_INPUT_NAME)
-  await page.locator('#midi-input').selectOption({ label: FAKE_MIDI_INPUT_NAME })
-  const bpm = Number((await page.locator('#tempo').inputValue()))
-  await page.getByTestId('start').click()
-  await page.getByTestId('phase').filter({ hasText: 'Playing' }).waitFor({ timeout: 15_000 })
-  await page.evaluate(notes => (window as unknown as { __fakeMidi: { play: (n: unknown) => Promise<void> } }).__fakeMidi.play(notes), performance(bpm))
-  await page.getByTestId('attempt-report').waitFor({ timeout: 15_000 })
+function openDrillAndPlay(): Promise<void> {
+  return playDrill(browser.page, drill, `?assignment=${assignmentId}`)
 }
 
 async function latestAttempt(): Promise<{ id: string, score: number, events: unknown[] } | undefined> {
