@@ -120,7 +120,7 @@ function logSumExp(values: Float64Array, from: number, count: number, stride: nu
   return max + Math.log(sum)
 }
 
-interface TripleWeights { temperature: number, shift: number, weights: Float64Array }
+interface TripleWeights { temperature: number, shift: number, span: number, weights: Float64Array }
 
 const NO_TRIPLE: { shift: number, weights: Float64Array | null } = { shift: 0, weights: null }
 
@@ -128,45 +128,177 @@ const tripleWeightCache = new WeakMap<ArrayLike<number>, TripleWeights>()
 
 /**
  * A triple table as linear weights exp(−(cost − least) / temperature), with least / temperature as
- * `shift`. Kept per table, because a line's lattice hands out the same few model tables again and
- * again, so their exponentials are taken once rather than at every note. Measured from the least cost,
- * every weight stays representable unless a table spans more than about 1,400 temperatures.
+ * `shift` and the table's range in temperatures as `span`. Kept per table, because a line's lattice
+ * hands out the same few model tables again and again, so their exponentials are taken once rather
+ * than at every note. Measured from the least cost, every weight stays representable unless a table
+ * spans more than about 1,400 temperatures.
  */
 function tripleWeights(triple: ArrayLike<number>, temperature: number): TripleWeights {
   const cached = tripleWeightCache.get(triple)
   if (cached && cached.temperature === temperature) return cached
   let least = Infinity
-  for (let j = 0; j < triple.length; j++) least = Math.min(least, triple[j]!)
+  let most = -Infinity
+  for (let j = 0; j < triple.length; j++) {
+    least = Math.min(least, triple[j]!)
+    most = Math.max(most, triple[j]!)
+  }
   const weights = new Float64Array(triple.length)
   for (let j = 0; j < triple.length; j++) weights[j] = Math.exp(-(triple[j]! - least) / temperature)
-  const made = { temperature, shift: least / temperature, weights }
+  const made = { temperature, shift: least / temperature, span: (most - least) / temperature, weights }
   tripleWeightCache.set(triple, made)
   return made
 }
 
 /**
- * Posterior probability of every option of every item when a path's probability is proportional to
- * exp(−cost / temperature) (forward–backward over the same state pairs, in log space so that long
- * lines neither underflow nor overflow). All items' states live in one flat array, item i ≥ 1 at
- * offsets[i] with its state (b, c) at b · sizes[i] + c (item 0 at 0, one state per option). A sum
- * that takes a triple term is done in linear space relative to its largest state, with the triple's
- * cached weights: one exponential per state instead of one per state and option, and since the
- * largest state's term is a weight measured from the table's least cost, the sum cannot vanish.
+ * The most temperatures a table (first, pair or triple) may span for the linear pass. Every factor
+ * is then at least e^−150, and two states of one item differ by at most four factors in either pass
+ * (their own table and the item before's, pair and triple), so after each item is rescaled to a
+ * largest state of 1, every state is at least e^−600: full double precision (which ends at e^−708),
+ * and a joint weight alpha · beta lost to underflow is below e^−600 of its item's total.
  */
-export function optionPosteriors(lattice: Lattice, temperature: number): Float64Array[] {
+const LINEAR_SPAN = 150
+
+/** All items' states in one flat array: item i ≥ 1 at offsets[i], its state (b, c) at b · sizes[i] + c (item 0 at 0). */
+interface StateLayout { sizes: Int32Array, offsets: Int32Array, maxSize: number }
+
+function stateLayout(lattice: Lattice): StateLayout {
   const n = lattice.sizes.length
-  if (n === 0) return []
   const sizes = Int32Array.from(lattice.sizes)
   const offsets = new Int32Array(n + 1)
   offsets[1] = sizes[0]!
   for (let i = 1; i < n; i++) offsets[i + 1] = offsets[i]! + sizes[i - 1]! * sizes[i]!
+  let maxSize = 1
+  for (let i = 0; i < n; i++) maxSize = Math.max(maxSize, sizes[i]!)
+  return { sizes, offsets, maxSize }
+}
+
+/**
+ * Writes exp(−(cost − least) / temperature) of `count` costs at `at`, or returns false (writing
+ * nothing) when the costs are not all finite or span more than LINEAR_SPAN temperatures.
+ */
+function linearWeights(costs: ArrayLike<number>, count: number, temperature: number, out: Float64Array, at: number): boolean {
+  let least = Infinity
+  let most = -Infinity
+  for (let j = 0; j < count; j++) {
+    least = Math.min(least, costs[j]!)
+    most = Math.max(most, costs[j]!)
+  }
+  if (!((most - least) / temperature <= LINEAR_SPAN)) return false
+  for (let j = 0; j < count; j++) out[at + j] = Math.exp(-(costs[j]! - least) / temperature)
+  return true
+}
+
+/** Divides `count` values at `from` by their largest, which the caller knows is positive. */
+function rescale(values: Float64Array, from: number, count: number, largest: number): void {
+  const by = 1 / largest
+  for (let j = from; j < from + count; j++) values[j] = values[j]! * by
+}
+
+/**
+ * Posterior probability of every option of every item when a path's probability is proportional to
+ * exp(−cost / temperature): forward–backward over the same state pairs. In linear space with every
+ * item rescaled (one exponential per pair entry, none per state) whenever every table spans at most
+ * LINEAR_SPAN temperatures, as any ergonomic model's do; otherwise in log space, which holds for any costs.
+ */
+export function optionPosteriors(lattice: Lattice, temperature: number): Float64Array[] {
+  if (lattice.sizes.length === 0) return []
+  const layout = stateLayout(lattice)
+  return linearPosteriors(lattice, temperature, layout) ?? logPosteriors(lattice, temperature, layout)
+}
+
+/**
+ * Scaled forward–backward, or null when a table spans too much for it. Each item's alpha and beta are
+ * divided by their largest state, which leaves every posterior unchanged, since each item's joint
+ * weights are normalised to sum 1.
+ */
+function linearPosteriors(lattice: Lattice, temperature: number, layout: StateLayout): Float64Array[] | null {
+  const { sizes, offsets } = layout
+  const n = sizes.length
+  const states = offsets[n]!
+  // Each state's own weight: the first table's at item 0, the pair table's after it, in the states' layout.
+  const own = new Float64Array(states)
+  if (!linearWeights(lattice.first(), sizes[0]!, temperature, own, 0)) return null
+  const triples: (Float64Array | null)[] = new Array(n).fill(null)
+  for (let i = 1; i < n; i++) {
+    if (!linearWeights(lattice.pair(i), sizes[i - 1]! * sizes[i]!, temperature, own, offsets[i]!)) return null
+    const triple = i >= 2 ? lattice.triple(i) : null
+    if (!triple) continue
+    const { span, weights } = tripleWeights(triple, temperature)
+    if (!(span <= LINEAR_SPAN)) return null
+    triples[i] = weights
+  }
+  const alpha = new Float64Array(states)
+  alpha.set(own.subarray(0, sizes[0]!))
+  for (let i = 1; i < n; i++) {
+    const sb = sizes[i - 1]!
+    const sc = sizes[i]!
+    const here = offsets[i]!
+    const sa = i >= 2 ? sizes[i - 2]! : 1
+    const before = i >= 2 ? offsets[i - 1]! : 0
+    const weights = triples[i] ?? null
+    let largest = 0
+    for (let b = 0; b < sb; b++) {
+      for (let c = 0; c < sc; c++) {
+        let sum = 0
+        if (weights) for (let a = 0; a < sa; a++) sum += alpha[before + a * sb + b]! * weights[(a * sb + b) * sc + c]!
+        else for (let a = 0; a < sa; a++) sum += alpha[before + a * sb + b]!
+        const value = sum * own[here + b * sc + c]!
+        alpha[here + b * sc + c] = value
+        largest = Math.max(largest, value)
+      }
+    }
+    rescale(alpha, here, sb * sc, largest)
+  }
+  const beta = new Float64Array(states)
+  beta.fill(1, offsets[n - 1]!)
+  for (let i = n - 1; i >= 1; i--) {
+    const sb = sizes[i - 1]!
+    const sc = sizes[i]!
+    const here = offsets[i]!
+    const sa = i >= 2 ? sizes[i - 2]! : 1
+    const out = i >= 2 ? offsets[i - 1]! : 0
+    const weights = triples[i] ?? null
+    let largest = 0
+    for (let a = 0; a < sa; a++) {
+      for (let b = 0; b < sb; b++) {
+        let sum = 0
+        for (let c = 0; c < sc; c++) {
+          const after = own[here + b * sc + c]! * beta[here + b * sc + c]!
+          sum += weights ? after * weights[(a * sb + b) * sc + c]! : after
+        }
+        beta[out + a * sb + b] = sum
+        largest = Math.max(largest, sum)
+      }
+    }
+    rescale(beta, out, sa * sb, largest)
+  }
+  const marginals: Float64Array[] = new Array(n)
+  for (let i = 0; i < n; i++) {
+    const sc = sizes[i]!
+    const from = offsets[i]!
+    let z = 0
+    for (let j = from; j < offsets[i + 1]!; j++) z += alpha[j]! * beta[j]!
+    const marginal = new Float64Array(sc)
+    for (let j = from; j < offsets[i + 1]!; j++) marginal[(j - from) % sc] = marginal[(j - from) % sc]! + (alpha[j]! * beta[j]!) / z
+    marginals[i] = marginal
+  }
+  return marginals
+}
+
+/**
+ * Forward–backward in log space, so that no costs, however far apart, underflow or overflow. A sum
+ * that takes a triple term is done in linear space relative to its largest state, with the triple's
+ * cached weights: one exponential per state instead of one per state and option, and since the
+ * largest state's term is a weight measured from the table's least cost, the sum cannot vanish.
+ */
+function logPosteriors(lattice: Lattice, temperature: number, layout: StateLayout): Float64Array[] {
+  const { sizes, offsets, maxSize } = layout
+  const n = sizes.length
   const alpha = new Float64Array(offsets[n]!)
   // Both passes read every pair table, so each is fetched from the lattice once, into the states' layout.
   const pairs = new Float64Array(offsets[n]!)
   const first = lattice.first()
   for (let c = 0; c < sizes[0]!; c++) alpha[c] = -first[c]! / temperature
-  let maxSize = 1
-  for (let i = 0; i < n; i++) maxSize = Math.max(maxSize, sizes[i]!)
   const scratch = new Float64Array(maxSize)
   for (let i = 1; i < n; i++) {
     const sb = sizes[i - 1]!
