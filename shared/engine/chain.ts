@@ -188,10 +188,10 @@ function linearWeights(costs: ArrayLike<number>, count: number, temperature: num
   return true
 }
 
-/** Divides `count` values at `from` by their largest, which the caller knows is positive. */
-function rescale(values: Float64Array, from: number, count: number, largest: number): void {
-  const by = 1 / largest
-  for (let j = from; j < from + count; j++) values[j] = values[j]! * by
+/** Divides `count` values at `from` by `by`, which the caller knows is positive. */
+function rescale(values: Float64Array, from: number, count: number, by: number): void {
+  const inverse = 1 / by
+  for (let j = from; j < from + count; j++) values[j] = values[j]! * inverse
 }
 
 /**
@@ -251,6 +251,8 @@ function linearPosteriors(lattice: Lattice, temperature: number, layout: StateLa
   }
   const beta = new Float64Array(states)
   beta.fill(1, offsets[n - 1]!)
+  // What follows item i − 1 in state b through each option c of item i, whatever came before b.
+  const after = new Float64Array(layout.maxSize)
   for (let i = n - 1; i >= 1; i--) {
     const sb = sizes[i - 1]!
     const sc = sizes[i]!
@@ -259,12 +261,18 @@ function linearPosteriors(lattice: Lattice, temperature: number, layout: StateLa
     const out = i >= 2 ? offsets[i - 1]! : 0
     const weights = triples[i] ?? null
     let largest = 0
-    for (let a = 0; a < sa; a++) {
-      for (let b = 0; b < sb; b++) {
-        let sum = 0
-        for (let c = 0; c < sc; c++) {
-          const after = own[here + b * sc + c]! * beta[here + b * sc + c]!
-          sum += weights ? after * weights[(a * sb + b) * sc + c]! : after
+    for (let b = 0; b < sb; b++) {
+      let whole = 0
+      for (let c = 0; c < sc; c++) {
+        after[c] = own[here + b * sc + c]! * beta[here + b * sc + c]!
+        whole += after[c]!
+      }
+      for (let a = 0; a < sa; a++) {
+        // Without a triple term what follows does not depend on the option at item i − 2.
+        let sum = whole
+        if (weights) {
+          sum = 0
+          for (let c = 0; c < sc; c++) sum += after[c]! * weights[(a * sb + b) * sc + c]!
         }
         beta[out + a * sb + b] = sum
         largest = Math.max(largest, sum)
@@ -276,10 +284,16 @@ function linearPosteriors(lattice: Lattice, temperature: number, layout: StateLa
   for (let i = 0; i < n; i++) {
     const sc = sizes[i]!
     const from = offsets[i]!
-    let z = 0
-    for (let j = from; j < offsets[i + 1]!; j++) z += alpha[j]! * beta[j]!
     const marginal = new Float64Array(sc)
-    for (let j = from; j < offsets[i + 1]!; j++) marginal[(j - from) % sc] = marginal[(j - from) % sc]! + (alpha[j]! * beta[j]!) / z
+    let z = 0
+    for (let j = from; j < offsets[i + 1]!; j += sc) {
+      for (let c = 0; c < sc; c++) {
+        const joint = alpha[j + c]! * beta[j + c]!
+        marginal[c] = marginal[c]! + joint
+        z += joint
+      }
+    }
+    rescale(marginal, 0, sc, z)
     marginals[i] = marginal
   }
   return marginals
