@@ -48,7 +48,8 @@ const finite = (v: number | null | undefined, fallback: number): number => (type
 
 function median(values: number[]): number | null {
   if (values.length === 0) return null
-  const sorted = [...values].sort((a, b) => a - b)
+  // A typed array sorts numerically without a comparator call per comparison.
+  const sorted = Float64Array.from(values).sort()
   const mid = sorted.length >> 1
   return sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2
 }
@@ -67,8 +68,17 @@ function groupChords(notes: PerformedNote[]): Item[] {
     else items.push({ notes: [i], onMs: on, releaseMs: null })
   })
   for (const item of items) {
-    const offs = item.notes.map(i => notes[i]!.offMs).filter((v): v is number => typeof v === 'number' && Number.isFinite(v))
-    item.releaseMs = offs.length === item.notes.length ? Math.max(...offs) : null
+    // The chord is released when its last note is, and unknown when any note's release is.
+    let release: number | null = -Infinity
+    for (const i of item.notes) {
+      const off = notes[i]!.offMs
+      if (typeof off !== 'number' || !Number.isFinite(off)) {
+        release = null
+        break
+      }
+      release = Math.max(release, off)
+    }
+    item.releaseMs = release
   }
   return items
 }
@@ -213,7 +223,8 @@ export function inferFingering(hand: Hand, notes: PerformedNote[], handSize: Han
   if (notes.length === 0) return { fingers: [], positions: [] }
   const items = groupChords(notes)
   const noteKeys = notes.map(n => toRightHandSpace(hand, n.midi))
-  const keys = items.map(item => [...new Set(item.notes.map(n => noteKeys[n]!))].sort((a, b) => a - b))
+  // Most items are single notes, which need no set of distinct keys.
+  const keys = items.map(item => item.notes.length === 1 ? [noteKeys[item.notes[0]!]!] : [...new Set(item.notes.map(n => noteKeys[n]!))].sort((a, b) => a - b))
   const model = costModel(handSize, PERFORMANCE_WEIGHTS)
   const base = lineLattice(keys, model)
   const lattice = withEvidence(base, model.table, items, noteKeys, accentsOf(notes))
@@ -221,16 +232,18 @@ export function inferFingering(hand: Hand, notes: PerformedNote[], handSize: Han
   const posteriors = optionPosteriors(lattice, TEMPERATURE)
   const chosen = chosenTouches(base, path)
   const fingers: { finger: Finger, confidence: number }[] = new Array(notes.length)
-  items.forEach((item, i) => {
-    item.notes.forEach((n) => {
+  for (let i = 0; i < items.length; i++) {
+    const options = base.options[i]!
+    const posterior = posteriors[i]!
+    for (const n of items[i]!.notes) {
       const j = Math.max(0, base.keys[i]!.indexOf(noteKeys[n]!))
       const finger = chosen[i]![j]!.f
       // A note's confidence is the posterior probability of every assignment that gives it this finger.
       let confidence = 0
-      base.options[i]!.forEach((option, o) => { if (option[j] === finger) confidence += posteriors[i]![o]! })
+      for (let o = 0; o < options.length; o++) if (options[o]![j] === finger) confidence += posterior[o]!
       fingers[n] = { finger, confidence: Math.min(1, Math.max(0, confidence)) }
-    })
-  })
+    }
+  }
   const lineItems: LineItem[] = items.map(item => (item.notes.length === 1 ? notes[item.notes[0]!]!.midi : item.notes.map(n => notes[n]!.midi)))
   const itemFingers = fingersForItems(hand, lineItems, chosen)
   const positions = positionStarts(hand, lineItems, itemFingers, handSize).map(i => items[i]!.notes[0]!)
