@@ -2,8 +2,8 @@
 // animation frame whose DOM shows the key highlighted, over 500 notes; and the gzip size of the
 // JavaScript the page loads. Figures only: this machine is shared, so nothing here is asserted.
 import { gzipSync } from 'node:zlib'
-import { openBrowser, signInAs } from '../tests/support/browser'
-import { FAKE_MIDI_INPUT_NAME, fakeMidiScript } from '../tests/support/fake-midi'
+import { openStudentWithFakeMidi } from '../tests/support/browser'
+import { FAKE_MIDI_INPUT_NAME } from '../tests/support/fake-midi'
 import { closeTestDb, testDb } from '../tests/support/server'
 
 const NOTES = 500
@@ -14,11 +14,9 @@ function percentile(sorted: number[], p: number): number {
 
 const drill = await testDb()('drills').where({ title: 'C major scale, right hand' }).first('id')
 await closeTestDb()
-const browser = await openBrowser({ initScript: fakeMidiScript })
+const browser = await openStudentWithFakeMidi()
 try {
   const { page } = browser
-  await signInAs(page, 'student@evenhand.test')
-  await page.waitForURL(/\/student$/)
 
   const scripts = new Map<string, number>()
   page.on('response', async (res) => {

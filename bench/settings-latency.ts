@@ -4,17 +4,15 @@
 // Headless chromium draws without a GPU or a real display: the page's own cost up to the painting
 // frame, not what a student's monitor adds.
 import { summariseLatency } from '../composables/useLatencyProbe'
-import { openBrowser, signInAs } from '../tests/support/browser'
-import { FAKE_MIDI_INPUT_NAME, fakeMidiScript } from '../tests/support/fake-midi'
+import { openStudentWithFakeMidi } from '../tests/support/browser'
+import { FAKE_MIDI_INPUT_NAME } from '../tests/support/fake-midi'
 
 const ROUNDS = 5
 const SPACING_MS = 150
 
-const browser = await openBrowser({ initScript: fakeMidiScript })
+const browser = await openStudentWithFakeMidi()
 try {
   const { page } = browser
-  await signInAs(page, 'student@evenhand.test')
-  await page.waitForURL(/\/student$/)
   await page.goto('/settings?probe=1')
   await page.locator('#midi-device').selectOption({ label: FAKE_MIDI_INPUT_NAME })
   const presses = Number((await page.getByTestId('latency-progress').textContent())?.match(/of (\d+)/)?.[1])

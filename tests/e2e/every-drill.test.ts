@@ -1,8 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { DrillNote } from '../../shared/types/drill'
-import { openBrowser, signInAs } from '../support/browser'
+import { openStudentWithFakeMidi } from '../support/browser'
 import type { BrowserSession } from '../support/browser'
-import { fakeMidiScript } from '../support/fake-midi'
 import { playDrill } from '../support/practice'
 import { closeTestDb, testDb } from '../support/server'
 
@@ -14,9 +13,7 @@ let drills: { id: number, title: string, notes: DrillNote[] }[]
 beforeAll(async () => {
   const rows = await testDb()('drills').orderBy('id').select('id', 'title', 'notes')
   drills = rows.map(r => ({ id: Number(r.id), title: r.title, notes: typeof r.notes === 'string' ? JSON.parse(r.notes) : r.notes }))
-  browser = await openBrowser({ initScript: fakeMidiScript })
-  await signInAs(browser.page, 'student@evenhand.test')
-  await browser.page.waitForURL(/\/student$/)
+  browser = await openStudentWithFakeMidi()
 })
 afterAll(async () => {
   await browser?.close()

@@ -1,8 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { DrillNote } from '../../shared/types/drill'
-import { openBrowser, signInAs } from '../support/browser'
+import { openStudentWithFakeMidi } from '../support/browser'
 import type { BrowserSession } from '../support/browser'
-import { fakeMidiScript } from '../support/fake-midi'
 import { playDrill } from '../support/practice'
 import { closeTestDb, testDb } from '../support/server'
 
@@ -18,9 +17,7 @@ beforeAll(async () => {
   studentId = Number((await db('users').where({ email: 'student@evenhand.test' }).first('id')).id)
   assignmentId = Number((await db('assignments as a').join('drill_set_items as i', 'i.drill_set_id', 'a.drill_set_id')
     .join('classes as c', 'c.id', 'a.class_id').where('i.drill_id', drill.id).where('c.name', 'Tuesday Starters').first('a.id')).id)
-  browser = await openBrowser({ initScript: fakeMidiScript })
-  await signInAs(browser.page, 'student@evenhand.test')
-  await browser.page.waitForURL(/\/student$/)
+  browser = await openStudentWithFakeMidi()
 })
 afterAll(async () => {
   await browser?.close()

@@ -1,15 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { summariseLatency } from '../../composables/useLatencyProbe'
-import { openBrowser, signInAs } from '../support/browser'
+import { openStudentWithFakeMidi } from '../support/browser'
 import type { BrowserSession } from '../support/browser'
-import { FAKE_MIDI_INPUT_NAME, fakeMidiScript } from '../support/fake-midi'
+import { FAKE_MIDI_INPUT_NAME } from '../support/fake-midi'
 
 let browser: BrowserSession
 
 beforeAll(async () => {
-  browser = await openBrowser({ initScript: fakeMidiScript })
-  await signInAs(browser.page, 'student@evenhand.test')
-  await browser.page.waitForURL(/\/student$/)
+  browser = await openStudentWithFakeMidi()
 })
 afterAll(async () => {
   await browser?.close()

@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { chromium } from 'playwright-core'
 import type { BrowserContext, Page } from 'playwright-core'
+import { fakeMidiScript } from './fake-midi'
 import { baseUrl, DEMO_PASSWORD } from './server'
 
 export interface BrowserSession {
@@ -38,4 +39,12 @@ export async function signInAs(page: Page, email: string, password = DEMO_PASSWO
   await page.getByLabel('E-mail').fill(email)
   await page.getByLabel('Password').fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
+}
+
+/** The demo student, signed in, in a browser whose Web MIDI is the fake keyboard of fake-midi.ts. */
+export async function openStudentWithFakeMidi(): Promise<BrowserSession> {
+  const session = await openBrowser({ initScript: fakeMidiScript })
+  await signInAs(session.page, 'student@evenhand.test')
+  await session.page.waitForURL(/\/student$/)
+  return session
 }
