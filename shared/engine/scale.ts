@@ -177,10 +177,14 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
  * Scale conventions of the printed tables (common practice), charged per note of the run so that they
  * weigh the same at any length: the thumb stays off black keys, and on the run's first pitch class (a
  * scale drill starts on its keynote) when that key is white, as every printed major scale with a white
- * keynote does in both hands, so that the hands meet on the thumbs in contrary motion.
+ * keynote does in both hands, so that the hands meet on the thumbs in contrary motion. A chromatic run
+ * (all twelve classes) has no keynote to meet on; instead every black key takes 3 (common practice,
+ * from memory: the usual chromatic fingering, 3 on the black keys and the thumb on the white ones, 2
+ * where two white keys meet), which the span rules alone, counting thumb passes, would trade for 4s.
  */
 function addConventions(windows: Float64Array[], phases: number[], classes: number[]): void {
   const m = classes.length
+  const chromatic = m === 12
   const notesOf = classes.map(() => 0)
   for (const phase of phases) notesOf[phase]!++
   const keynote = phases[0]!
@@ -189,10 +193,11 @@ function addConventions(windows: Float64Array[], phases: number[], classes: numb
     const fromWhite = !isBlackKey(classes[(phase + m - 1) % m]!)
     const window = windows[phase]!
     for (let j = 0; j < 125; j++) {
-      const thumb = Math.floor(j / 5) % 5 === 0
+      const finger = Math.floor(j / 5) % 5 + 1
+      const thumb = finger === 1
       let points = 0
       if (thumb && black) points += CONVENTION_POINTS
-      if (!thumb && phase === keynote && !black) points += CONVENTION_POINTS
+      if (chromatic ? black && finger !== 3 : !thumb && phase === keynote && !black) points += CONVENTION_POINTS
       if (thumb && fromWhite) points += WHITE_PASS_POINTS
       window[j] = window[j]! + points * notesOf[phase]!
     }

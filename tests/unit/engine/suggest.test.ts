@@ -109,6 +109,27 @@ describe('scale runs', () => {
   })
 })
 
+describe('chromatic scale', () => {
+  // Common practice, from memory: 3 on every black key, the thumb on the white keys, and 2 on the
+  // second of two neighbouring white keys as the hand goes up (right hand F and C, left hand E and B),
+  // one finger per key up and down. The turns and ends may leave it (see the scale runs above).
+  const EXPECTED: Record<'right' | 'left', Record<number, Finger>> = {
+    right: { 0: 2, 2: 1, 4: 1, 5: 2, 7: 1, 9: 1, 11: 1 },
+    left: { 0: 1, 2: 1, 4: 2, 5: 1, 7: 1, 9: 1, 11: 2 },
+  }
+  const cases = (['right', 'left'] as const).flatMap(hand => [0, 2, 4, 7].map(start => ({ hand, start })))
+
+  it.each(cases)('$hand hand, two octaves from pitch class $start up and down', ({ hand, start }) => {
+    const up = Array.from({ length: 25 }, (_, i) => (hand === 'right' ? 60 : 48) + start + i)
+    const notes = [...up, ...up.slice(0, -1).reverse()]
+    const fingers = suggestFingering({ hand, notes }).fingers as Finger[]
+    notes.forEach((m, i) => {
+      if (i === 0 || i === 24 || i === notes.length - 1) return
+      expect(fingers[i], `note ${i}`).toBe([1, 3, 6, 8, 10].includes(m % 12) ? 3 : EXPECTED[hand][m % 12])
+    })
+  })
+})
+
 describe('suggestFingering', () => {
   it.each<[string, 'right' | 'left', number[], Finger[]]>([
     // Common practice: a five-finger pattern takes one finger per key.
