@@ -4,7 +4,8 @@ import { HAND_SIZE_FACTOR, PARNCUTT_SPANS, spanTable, type FingerPair, type Span
 import type { Finger } from '../../../shared/engine/types'
 
 // Parncutt, Sloboda, Clarke, Raekallio & Desain 1997, Music Perception 14(4), Table 1, right hand,
-// semitones [MinPrac, MinComf, MinRel, MaxRel, MaxComf, MaxPrac]. From memory of the published table.
+// semitones [MinPrac, MinComf, MinRel, MaxRel, MaxComf, MaxPrac]. From memory of the published table;
+// at least three of four independent public transcriptions agree with each figure (see spans.ts).
 const PUBLISHED: [FingerPair, SpanRow][] = [
   ['1-2', [-5, -3, 1, 5, 8, 10]],
   ['1-3', [-4, -2, 3, 7, 10, 12]],
