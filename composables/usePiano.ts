@@ -1,6 +1,6 @@
 // The sampled piano for live playing.
 //   const piano = usePiano()
-//   piano.noteOn(60, 90); piano.noteOff(60); piano.releaseAll()
+//   piano.noteOn(60, 90); piano.noteOff(60); piano.sustain(true); piano.releaseAll()
 //   piano.loaded  – true once every sample is decoded (notes before that are silently dropped)
 //   piano.enabled – sound on/off, shared by every caller (the settings page toggles it)
 // Samples come from public/samples/ (scripts/render-samples.sh: every third key A0–C8).
@@ -15,6 +15,9 @@ const RELEASE_S = 0.4
 
 let sampler: Sampler | null = null
 let loading: Promise<void> | null = null
+/** While the sustain pedal is down, released keys keep sounding until it comes up, as on a piano. */
+let pedalDown = false
+const sustained = new Set<number>()
 
 /** tone's sampler keys are note names such as `D#1`; our files spell the sharp `s`. */
 function sampleUrls(): Record<string, string> {
@@ -50,14 +53,29 @@ export function usePiano() {
   function noteOn(midi: number, velocity = 80): void {
     // A note that arrives before the samples are ready is dropped: sounding it late would be worse.
     if (!enabled.value || !loaded.value || !sampler || !audioRunning()) return
+    // A key struck again is held by its own key now, not by the pedal.
+    sustained.delete(midi)
     sampler.triggerAttack(noteName(midi), undefined, Math.min(Math.max(velocity, 1), 127) / 127)
   }
 
   function noteOff(midi: number): void {
-    if (loaded.value && sampler) sampler.triggerRelease(noteName(midi))
+    if (!loaded.value || !sampler) return
+    if (pedalDown) sustained.add(midi)
+    else sampler.triggerRelease(noteName(midi))
   }
 
+  /** The sustain pedal (MIDI CC64): lifting it releases every key let go while it was down. */
+  function sustain(down: boolean): void {
+    pedalDown = down
+    if (down || !loaded.value || !sampler) return
+    for (const midi of sustained) sampler.triggerRelease(noteName(midi))
+    sustained.clear()
+  }
+
+  /** Silences everything; the pedal counts as up until the keyboard next reports it. */
   function releaseAll(): void {
+    pedalDown = false
+    sustained.clear()
     if (loaded.value && sampler) sampler.releaseAll()
   }
 
@@ -69,7 +87,7 @@ export function usePiano() {
     load().catch((error: unknown) => console.error('Piano samples failed to load', error))
   })
 
-  return { enabled, loaded: readonly(loaded), noteOn, noteOff, releaseAll, load }
+  return { enabled, loaded: readonly(loaded), noteOn, noteOff, sustain, releaseAll, load }
 }
 
 /** tone reads a bare number as a frequency in Hz, so notes go in by name (`C#4`). */

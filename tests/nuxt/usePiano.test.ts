@@ -70,4 +70,23 @@ describe('usePiano', () => {
     expect(fake.state.attacks).toHaveLength(2)
     expect(fake.state.releases).toContain('all')
   })
+
+  it('holds released keys while the sustain pedal is down and lets them go when it comes up', async () => {
+    const piano = await mountPiano()
+    fake.state.options!.onload()
+    piano.enabled.value = true
+    fake.state.releases.length = 0
+    piano.noteOn(60, 80)
+    piano.noteOn(64, 80)
+    piano.sustain(true)
+    piano.noteOff(60)
+    piano.noteOff(64)
+    expect(fake.state.releases).toEqual([])
+    // Struck again under the pedal, E is held by its key when the pedal lifts.
+    piano.noteOn(64, 80)
+    piano.sustain(false)
+    expect(fake.state.releases).toEqual(['C4'])
+    piano.noteOff(64)
+    expect(fake.state.releases).toEqual(['C4', 'E4'])
+  })
 })
