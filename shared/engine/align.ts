@@ -56,7 +56,7 @@ const GAP = 20
 const TIME_MAX = 9
 /** Extra band width beyond the length difference: room for local detours (a skipped or added run). */
 const BAND_MARGIN = 32
-/** Upper bound on DP cells (18 bytes each: costs, tracebacks, last pairings), so junk input cannot exhaust memory. */
+/** Upper bound on DP cells (two bytes of moves each), so junk input cannot exhaust memory or time. */
 const MAX_CELLS = 4_000_000
 const INF = 0x0fffffff
 
@@ -85,6 +85,12 @@ function playedOrder(played: readonly AlignPlayed[], windowMs: number): { order:
     const first = played[byOnset[start]!]!.onMs
     let end = start + 1
     while (end < byOnset.length && played[byOnset[end]!]!.onMs - first <= windowMs) end++
+    if (end === start + 1) {
+      // Most notes are struck alone and need no group of their own.
+      order.push(byOnset[start]!)
+      start = end
+      continue
+    }
     const group = byOnset.slice(start, end).sort((a, b) => played[a]!.midi - played[b]!.midi || a - b)
     for (let k = 1; k < group.length; k++) grouped[order.length + k] = 1
     for (const index of group) order.push(index)
@@ -108,19 +114,22 @@ interface Lines {
 }
 
 /**
- * The programme's two layers over the band, cell (i, j) at rowStart[i] − lo[i] + j: the best cost of
- * aligning the first i drill and j played notes ending in a pairing (M) or in a missed or extra note
- * (G), so that an interval is judged between two pairings that really follow each other on the chosen
- * path. G carries that path's last pairing across the gap.
+ * The programme's two layers over the band: the best cost of aligning the first i drill and j played
+ * notes ending in a pairing (M) or in a missed or extra note (G), so that an interval is judged between
+ * two pairings that really follow each other on the chosen path. G carries that path's last pairing
+ * across the gap. Only the moves are kept for every cell (at rowStart[i] − lo[i] + j), for the
+ * traceback; costs and last pairings only for the last three rows (a crossing looks two rows back), in
+ * rings with row i at (i % 3) · ringWidth − lo[i], so that the rows the loop reads stay in cache.
  */
 interface Band {
   lo: Int32Array
   hi: Int32Array
   rowStart: Int32Array
-  costM: Int32Array
-  costG: Int32Array
   traceM: Uint8Array
   traceG: Uint8Array
+  ringWidth: number
+  costM: Int32Array
+  costG: Int32Array
   lastTargetG: Int32Array
   lastPlayedG: Int32Array
 }
@@ -131,15 +140,14 @@ function inOrder<A extends Int32Array | Float64Array>(out: A, order: readonly nu
   return out
 }
 
-function cellOf(band: Band, i: number, j: number): number {
-  return j < band.lo[i]! || j > band.hi[i]! ? -1 : band.rowStart[i]! - band.lo[i]! + j
+/** Where row i's costs start in the rings, offset so that cell j is at ringRow(band, i) + j. */
+function ringRow(band: Band, i: number): number {
+  return (i % 3) * band.ringWidth - band.lo[i]!
 }
 
-/** Off-time cost of pairing drill note a with played note b after the pairing pa–pb (0-based canonical indices). */
-function offTime(lines: Lines, a: number, b: number, pa: number, pb: number): number {
-  if (lines.perMs === 0 || pa < 0 || pb < 0) return 0
-  const off = Math.abs(lines.pOn[b]! - lines.pOn[pb]! - (lines.tMs[a]! - lines.tMs[pa]!))
-  return Math.min(TIME_MAX, (off * lines.perMs + 0.5) | 0)
+/** The cost of a played interval that is offMs longer or shorter than the written one. */
+function timeCost(offMs: number, perMs: number): number {
+  return Math.min(TIME_MAX, (Math.abs(offMs) * perMs + 0.5) | 0)
 }
 
 /** Whether drill notes i-2, i-1 (1-based i) may be matched crosswise with played notes j-2, j-1. */
@@ -148,66 +156,112 @@ function mayCross(lines: Lines, i: number, j: number): boolean {
     || (lines.tBeat[i - 1] === lines.tBeat[i - 2] && lines.pOn[j - 1]! - lines.pOn[j - 2]! <= HANDS_TOGETHER_MS)
 }
 
-/** Enter G at `here` from cell `from`, whose own pairing, if it ends in one, is drill note fromTarget with played note fromPlayed. */
-function enterGap(band: Band, here: number, from: number, fromTarget: number, fromPlayed: number, up: boolean): void {
-  const fromM = band.costM[from]!
-  const fromG = band.costG[from]!
-  const cost = Math.min(fromM, fromG) + GAP
-  if (cost < band.costG[here]!) {
-    band.costG[here] = cost
-    const m = fromM < fromG
-    band.traceG[here] = up ? (m ? UP_FROM_M : UP_FROM_G) : (m ? LEFT_FROM_M : LEFT_FROM_G)
-    band.lastTargetG[here] = m ? fromTarget : band.lastTargetG[from]!
-    band.lastPlayedG[here] = m ? fromPlayed : band.lastPlayedG[from]!
-  }
-}
-
 /**
  * Fills both layers row by row. Kept apart from alignNotes, with its helpers at module level, so that
- * no closure captures the arrays and the engine keeps them in registers over the hot loop.
+ * no closure captures the arrays and the engine keeps them in registers over the hot loop. Every cell
+ * of the band is written once (unreachable ones with INF), and the cell to the left is carried in
+ * locals rather than read back.
  */
 function fillBand(band: Band, lines: Lines): void {
-  const { lo, hi, rowStart, costM, costG, traceM, lastTargetG, lastPlayedG } = band
-  const { tMidi, pMidi } = lines
+  const { lo, hi, rowStart, traceM, traceG, costM, costG, lastTargetG, lastPlayedG } = band
+  const { tMidi, pMidi, pOn, tMs, perMs } = lines
+  const top = ringRow(band, 0)
   for (let j = 0; j <= hi[0]!; j++) {
-    costG[j] = j * GAP
-    band.traceG[j] = LEFT_FROM_G
+    costM[top + j] = INF
+    costG[top + j] = j * GAP
+    traceG[j] = LEFT_FROM_G
+    lastTargetG[top + j] = -1
+    lastPlayedG[top + j] = -1
   }
   // Row 0 has no pairing, so a pairing after it is judged against none.
   for (let i = 1; i < lo.length; i++) {
     const midi = tMidi[i - 1]!
     const before = i > 1 ? tMidi[i - 2]! : -1
-    const base = rowStart[i]! - lo[i]!
+    const trace = rowStart[i]! - lo[i]!
+    const ring = ringRow(band, i)
     const first = lo[i]!
     const last = hi[i]!
     // Bands only move right, so the row above covers this row's start.
-    const upBase = rowStart[i - 1]! - lo[i - 1]!
+    const upRing = ringRow(band, i - 1)
     const upLo = lo[i - 1]!
     const upHi = hi[i - 1]!
+    let leftM = INF
+    let leftG = INF
+    let leftTarget = -1
+    let leftPlayed = -1
     for (let j = first; j <= last; j++) {
-      const here = base + j
-      if (j <= upHi) enterGap(band, here, upBase + j, i - 2, j - 1, true)
-      if (j === 0) continue
-      if (j > first) enterGap(band, here, here - 1, i - 1, j - 2, false)
-      if (j - 1 >= upLo && j - 1 <= upHi) {
-        const diagonal = upBase + j - 1
-        const pitch = pMidi[j - 1] === midi ? 0 : SUBSTITUTE
-        const fromM = costM[diagonal]! + pitch + offTime(lines, i - 1, j - 1, i - 2, j - 2)
-        const fromG = costG[diagonal]! + pitch + offTime(lines, i - 1, j - 1, lastTargetG[diagonal]!, lastPlayedG[diagonal]!)
-        costM[here] = Math.min(fromM, fromG)
-        traceM[here] = fromM < fromG ? DIAGONAL_FROM_M : DIAGONAL_FROM_G
+      // G: a missed drill note (from above) or an extra played note (from the left), carrying the
+      // last pairing across; on a tie the gap layer's path is kept, as the strict comparisons say.
+      let g = INF
+      let gTrace = 0
+      let gTarget = -1
+      let gPlayed = -1
+      if (j <= upHi) {
+        const up = upRing + j
+        const fromM = costM[up]!
+        const fromG = costG[up]!
+        const cost = Math.min(fromM, fromG) + GAP
+        if (cost < g) {
+          g = cost
+          const m = fromM < fromG
+          gTrace = m ? UP_FROM_M : UP_FROM_G
+          gTarget = m ? i - 2 : lastTargetG[up]!
+          gPlayed = m ? j - 1 : lastPlayedG[up]!
+        }
       }
-      if (j > 1 && before !== -1 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before && mayCross(lines, i, j)) {
-        const crossed = cellOf(band, i - 2, j - 2)
-        if (crossed >= 0) {
+      let m = INF
+      let mTrace = 0
+      if (j > 0) {
+        if (j > first) {
+          const cost = Math.min(leftM, leftG) + GAP
+          if (cost < g) {
+            g = cost
+            const fromM = leftM < leftG
+            gTrace = fromM ? LEFT_FROM_M : LEFT_FROM_G
+            gTarget = fromM ? i - 1 : leftTarget
+            gPlayed = fromM ? j - 2 : leftPlayed
+          }
+        }
+        if (j - 1 >= upLo && j - 1 <= upHi) {
+          const diagonal = upRing + j - 1
+          const pitch = pMidi[j - 1] === midi ? 0 : SUBSTITUTE
+          // The interval from the pairing before, on the straight path and across the gap.
+          let timeM = 0
+          let timeG = 0
+          if (perMs > 0) {
+            const onMs = pOn[j - 1]!
+            const atMs = tMs[i - 1]!
+            if (i > 1 && j > 1) timeM = timeCost(onMs - pOn[j - 2]! - (atMs - tMs[i - 2]!), perMs)
+            const pa = lastTargetG[diagonal]!
+            const pb = lastPlayedG[diagonal]!
+            if (pa >= 0 && pb >= 0) timeG = timeCost(onMs - pOn[pb]! - (atMs - tMs[pa]!), perMs)
+          }
+          const fromM = costM[diagonal]! + pitch + timeM
+          const fromG = costG[diagonal]! + pitch + timeG
+          m = Math.min(fromM, fromG)
+          mTrace = fromM < fromG ? DIAGONAL_FROM_M : DIAGONAL_FROM_G
+        }
+        if (j > 1 && before !== -1 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before
+          && mayCross(lines, i, j) && j - 2 >= lo[i - 2]! && j - 2 <= hi[i - 2]!) {
+          const crossed = ringRow(band, i - 2) + j - 2
           const fromM = costM[crossed]!
           const fromG = costG[crossed]!
-          if (Math.min(fromM, fromG) < costM[here]!) {
-            costM[here] = Math.min(fromM, fromG)
-            traceM[here] = fromM < fromG ? SWAP_FROM_M : SWAP_FROM_G
+          if (Math.min(fromM, fromG) < m) {
+            m = Math.min(fromM, fromG)
+            mTrace = fromM < fromG ? SWAP_FROM_M : SWAP_FROM_G
           }
         }
       }
+      traceM[trace + j] = mTrace
+      traceG[trace + j] = gTrace
+      costM[ring + j] = m
+      costG[ring + j] = g
+      lastTargetG[ring + j] = gTarget
+      lastPlayedG[ring + j] = gPlayed
+      leftM = m
+      leftG = g
+      leftTarget = gTarget
+      leftPlayed = gPlayed
     }
   }
 }
@@ -245,23 +299,26 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
     rowStart[i + 1] = rowStart[i]! + hi[i]! - lo[i]! + 1
   }
   const cells = rowStart[rows]!
+  let ringWidth = 0
+  for (let i = 0; i <= n; i++) ringWidth = Math.max(ringWidth, hi[i]! - lo[i]! + 1)
   const band: Band = {
     lo,
     hi,
     rowStart,
-    costM: new Int32Array(cells).fill(INF),
-    costG: new Int32Array(cells).fill(INF),
     traceM: new Uint8Array(cells),
     traceG: new Uint8Array(cells),
-    lastTargetG: new Int32Array(cells).fill(-1),
-    lastPlayedG: new Int32Array(cells).fill(-1),
+    ringWidth,
+    costM: new Int32Array(3 * ringWidth),
+    costG: new Int32Array(3 * ringWidth),
+    lastTargetG: new Int32Array(3 * ringWidth),
+    lastPlayedG: new Int32Array(3 * ringWidth),
   }
   fillBand(band, lines)
-  const { costM, costG, traceM, traceG } = band
-  const cell = (i: number, j: number): number => cellOf(band, i, j)
+  const { traceM, traceG } = band
+  const cell = (i: number, j: number): number => rowStart[i]! - lo[i]! + j
 
-  const match: (number | null)[] = Array.from({ length: targets.length }, () => null)
-  const outcome: AlignOutcome[] = Array.from({ length: targets.length }, () => 'missed')
+  const match = new Array<number | null>(targets.length).fill(null)
+  const outcome = new Array<AlignOutcome>(targets.length).fill('missed')
   const pair = (ti1: number, pj1: number): void => {
     const target = ti[ti1]!
     match[target] = pi[pj1]!
@@ -270,8 +327,8 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
   const extrasReversed: number[] = []
   let i = n
   let j = m
-  const last = cell(n, m)
-  let inM = costM[last]! <= costG[last]!
+  const last = ringRow(band, n) + m
+  let inM = band.costM[last]! <= band.costG[last]!
   while (i > 0 || j > 0) {
     const here = cell(i, j)
     if (inM) {
