@@ -48,8 +48,9 @@ const finite = (v: number | null | undefined, fallback: number): number => (type
 
 function median(values: number[]): number | null {
   if (values.length === 0) return null
-  // A typed array sorts numerically without a comparator call per comparison.
-  const sorted = Float64Array.from(values).sort()
+  // A typed array sorts numerically without a comparator call per comparison (and, built from the
+  // array directly rather than through TypedArray.from's iterator, is copied cheaply).
+  const sorted = new Float64Array(values).sort()
   const mid = sorted.length >> 1
   return sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2
 }
@@ -161,23 +162,24 @@ function moveLogLikelihood(move: Move, t: Timing): number {
   return ll
 }
 
-/** Per option of item i: the velocity evidence, in cost units (−TEMPERATURE · log-likelihood). */
-function thumbEvidence(base: LineLattice, item: Item, i: number, noteKeys: number[], accents: number[]): Float64Array {
+/**
+ * Per option of item i: the velocity evidence, in cost units (−TEMPERATURE · log-likelihood), written
+ * to `out` (one scratch array for every item, so that no item allocates).
+ */
+function thumbEvidence(base: LineLattice, item: Item, i: number, noteKeys: number[], accents: number[], out: Float64Array): void {
   const keys = base.keys[i]!
-  // Every key comes from one of the item's notes, so each gets the loudest of its notes.
-  const accentOfKey = keys.map(() => -Infinity)
-  for (const n of item.notes) {
-    const j = keys.indexOf(noteKeys[n]!)
-    accentOfKey[j] = Math.max(accentOfKey[j]!, accents[n]!)
-  }
   const options = base.options[i]!
-  const evidence = new Float64Array(options.length)
-  for (let o = 0; o < options.length; o++) {
-    let ll = 0
-    for (let j = 0; j < keys.length; j++) ll += softLog(accentOfKey[j]!, options[o]![j] === 1 ? P_ACCENT_THUMB : P_ACCENT_OTHER)
-    evidence[o] = -TEMPERATURE * ll
+  out.fill(0, 0, options.length)
+  for (let j = 0; j < keys.length; j++) {
+    // Every key comes from one of the item's notes, so each gets the loudest of its notes; its
+    // log-likelihood under the thumb and under another finger is taken once for all options.
+    let accent = -Infinity
+    for (const n of item.notes) if (noteKeys[n] === keys[j]) accent = Math.max(accent, accents[n]!)
+    const thumb = softLog(accent, P_ACCENT_THUMB)
+    const other = softLog(accent, P_ACCENT_OTHER)
+    for (let o = 0; o < options.length; o++) out[o] = out[o]! + (options[o]![j] === 1 ? thumb : other)
   }
-  return evidence
+  for (let o = 0; o < options.length; o++) out[o] = -TEMPERATURE * out[o]!
 }
 
 /**
@@ -187,22 +189,35 @@ function thumbEvidence(base: LineLattice, item: Item, i: number, noteKeys: numbe
 function withEvidence(base: LineLattice, table: SpanRow[][], items: Item[], noteKeys: number[], accents: number[]): Lattice {
   const timings = timingOf(items)
   const touchesOf = (i: number): Touch[][] => base.options[i]!.map(fingers => base.keys[i]!.map((k, j) => ({ f: fingers[j]!, k })))
-  const first = new Float64Array(base.first())
-  const velocity0 = thumbEvidence(base, items[0]!, 0, noteKeys, accents)
-  for (let o = 0; o < first.length; o++) first[o] = first[o]! + velocity0[o]!
+  let most = 0
+  for (let i = 0; i < items.length; i++) most = Math.max(most, base.sizes[i]!)
+  const velocity = new Float64Array(most)
+  const baseFirst = base.first()
+  thumbEvidence(base, items[0]!, 0, noteKeys, accents, velocity)
+  // Filled in a loop: copying through the typed-array constructor costs more than the sums.
+  const first = new Float64Array(base.sizes[0]!)
+  for (let o = 0; o < first.length; o++) first[o] = baseFirst[o]! + velocity[o]!
+  // Every item's pair table is a view into one buffer: a typed array of more than a few numbers is
+  // allocated outside the heap, which would cost more per item than filling it.
+  let size = 0
+  for (let i = 1; i < items.length; i++) size += base.sizes[i - 1]! * base.sizes[i]!
+  const buffer = new Float64Array(size)
+  let offset = 0
   const pairs: Float64Array[] = new Array(items.length)
   const moveCost = new Float64Array(MOVES.length)
   for (let i = 1; i < items.length; i++) {
-    const velocity = thumbEvidence(base, items[i]!, i, noteKeys, accents)
+    thumbEvidence(base, items[i]!, i, noteKeys, accents, velocity)
     for (let m = 0; m < MOVES.length; m++) moveCost[m] = TEMPERATURE * moveLogLikelihood(MOVES[m]!, timings[i]!)
-    const costs = new Float64Array(base.pair(i))
+    const basePair = base.pair(i)
     const sb = base.sizes[i - 1]!
     const sc = base.sizes[i]!
+    const costs = buffer.subarray(offset, offset + sb * sc)
+    offset += sb * sc
     const keysB = base.keys[i - 1]!
     const keysC = base.keys[i]!
     if (keysB.length === 1 && keysC.length === 1) {
       const moves = singleNoteMoves(table, keysC[0]! - keysB[0]!)
-      for (let j = 0; j < sb * sc; j++) costs[j] = costs[j]! + velocity[j % sc]! - moveCost[moves[j]!]!
+      for (let j = 0; j < sb * sc; j++) costs[j] = basePair[j]! + velocity[j % sc]! - moveCost[moves[j]!]!
     }
     else {
       const from = touchesOf(i - 1)
@@ -210,7 +225,7 @@ function withEvidence(base: LineLattice, table: SpanRow[][], items: Item[], note
       for (let b = 0; b < sb; b++) {
         for (let c = 0; c < sc; c++) {
           const move = MOVES.indexOf(moveOf(table, from[b]!, to[c]!))
-          costs[b * sc + c] = costs[b * sc + c]! + velocity[c]! - moveCost[move]!
+          costs[b * sc + c] = basePair[b * sc + c]! + velocity[c]! - moveCost[move]!
         }
       }
     }
