@@ -121,9 +121,12 @@ interface Timing {
 
 /** The drill's typical step: the median gap between consecutive distinct beats. */
 function typicalStep(targets: Target[]): number | null {
-  const beats = [...new Set(targets.map(t => t.beat))].sort((a, b) => a - b)
+  // A typed array sorts numerically without a comparator call per comparison.
+  const beats = new Float64Array(targets.length)
+  for (let k = 0; k < targets.length; k++) beats[k] = targets[k]!.beat
+  beats.sort()
   const gaps: number[] = []
-  for (let k = 1; k < beats.length; k++) gaps.push(beats[k]! - beats[k - 1]!)
+  for (let k = 1; k < beats.length; k++) if (beats[k] !== beats[k - 1]) gaps.push(beats[k]! - beats[k - 1]!)
   return median(gaps)
 }
 
@@ -178,21 +181,35 @@ function measureTiming(targets: Target[], matched: (PlayedNote | null)[], step: 
  * tempo barely moves it; a limp on every other note does.
  */
 function ioiVariation(beats: number[], onsets: number[]): number | null {
-  const byBeat = new Map<number, { sum: number, n: number }>()
-  beats.forEach((b, k) => {
-    const e = byBeat.get(b) ?? { sum: 0, n: 0 }
-    e.sum += onsets[k]!
-    e.n++
-    byBeat.set(b, e)
-  })
-  const points = [...byBeat].sort((a, b) => a[0] - b[0]).map(([b, e]) => [b, e.sum / e.n] as const)
+  // One point per beat, its onset the mean of the beat's notes (summed in the order they come).
+  const pointBeats: number[] = []
+  const pointOnsets: number[] = []
+  const order = ascendingOrder(beats)
+  for (let start = 0; start < order.length;) {
+    const beat = beats[order[start]!]!
+    let sum = 0
+    let end = start
+    for (; end < order.length && beats[order[end]!] === beat; end++) sum += onsets[order[end]!]!
+    pointBeats.push(beat)
+    pointOnsets.push(sum / (end - start))
+    start = end
+  }
   const iois: number[] = []
-  for (let k = 1; k < points.length; k++) iois.push((points[k]![1] - points[k - 1]![1]) / (points[k]![0] - points[k - 1]![0]))
+  for (let k = 1; k < pointBeats.length; k++) iois.push((pointOnsets[k]! - pointOnsets[k - 1]!) / (pointBeats[k]! - pointBeats[k - 1]!))
   if (iois.length < 2) return null
   const changes: number[] = []
   for (let k = 1; k < iois.length; k++) changes.push(Math.abs(iois[k]! - iois[k - 1]!))
   const meanIoi = mean(iois)!
   return meanIoi > 0 ? (100 * mean(changes)!) / meanIoi : null
+}
+
+/** Indices of `values` in ascending order, equal values in their own order; no sort when they already ascend. */
+function ascendingOrder(values: readonly number[]): number[] {
+  const order = values.map((_, k) => k)
+  for (let k = 1; k < values.length; k++) {
+    if (values[k]! < values[k - 1]!) return order.sort((a, b) => values[a]! - values[b]! || a - b)
+  }
+  return order
 }
 
 function measureLoudness(targets: Target[], matched: (PlayedNote | null)[], fingers: GradeResult['inferredFingers']): GradeResult['loudness'] {
