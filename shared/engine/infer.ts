@@ -3,6 +3,7 @@ import { cheapestPath, optionPosteriors, type Lattice } from './chain'
 import { costModel, fitsPosition, PERFORMANCE_WEIGHTS, positionStarts, type Touch } from './ergonomics'
 import { chosenTouches, lineLattice, type LineLattice } from './lattice'
 import { pairSpan, MAX_PRAC, MIN_PRAC, type SpanRow } from './spans'
+import { median } from './stats'
 import { fingersForItems } from './suggest'
 import { toRightHandSpace } from './touches'
 import type { Finger, Hand, HandSize, LineItem } from './types'
@@ -45,15 +46,6 @@ const LATE_RATIO = 0.25
 
 const logistic = (x: number): number => 1 / (1 + Math.exp(-x))
 const finite = (v: number | null | undefined, fallback: number): number => (typeof v === 'number' && Number.isFinite(v) ? v : fallback)
-
-function median(values: number[]): number | null {
-  if (values.length === 0) return null
-  // A typed array sorts numerically without a comparator call per comparison (and, built from the
-  // array directly rather than through TypedArray.from's iterator, is copied cheaply).
-  const sorted = new Float64Array(values).sort()
-  const mid = sorted.length >> 1
-  return sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2
-}
 
 /** log P(observation) where the observation is "true" with soft degree `x` and the model says `p`. */
 const softLog = (x: number, p: number): number => Math.log(x * p + (1 - x) * (1 - p))
