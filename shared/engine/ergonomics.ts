@@ -390,20 +390,30 @@ export function positionStarts(hand: Hand, items: LineItem[], fingers: (Finger |
   const table = spanTable(handSize)
   const starts: number[] = []
   let current: Touch[] = []
-  lineTouches(hand, items, fingers).forEach((touches, i) => {
-    if (touches.length === 0) return
-    const fits = touches.every(t => current.every(held => fitsPosition(table, held, t)))
-    if (fits) {
-      // A finger that plays again now sits on its new key (which fitting allows only if it is the same key).
+  const line = lineTouches(hand, items, fingers)
+  for (let i = 0; i < line.length; i++) {
+    const touches = line[i]!
+    if (touches.length === 0) continue
+    if (fitsAll(table, current, touches)) {
+      // A finger that plays again now sits on its new key (which fitting allows only if it is the same key);
+      // any other finger joins the position.
       for (const t of touches) {
-        const same = current.findIndex(held => held.f === t.f)
-        if (same >= 0) current[same] = t
-        else current.push(t)
+        let same = 0
+        while (same < current.length && current[same]!.f !== t.f) same++
+        current[same] = t
       }
-      return
+      continue
     }
     if (current.length > 0) starts.push(i)
-    current = [...touches]
-  })
+    current = touches.slice()
+  }
   return starts
+}
+
+/** Whether every touch fits one hand position with every touch held. */
+function fitsAll(table: SpanRow[][], held: Touch[], touches: Touch[]): boolean {
+  for (const t of touches) {
+    for (const h of held) if (!fitsPosition(table, h, t)) return false
+  }
+  return true
 }
