@@ -54,19 +54,21 @@ export function cheapestPath(lattice: Lattice): ChainPath {
   for (let b = 0; b < s0; b++) {
     for (let c = 0; c < s1; c++) prev[b * s1 + c] = first[b]! + pair1[b * s1 + c]!
   }
+  // Items without a triple term read zeros, so that the innermost loop has no branch on it.
+  let zeros: Float64Array | null = null
   for (let i = 2; i < n; i++) {
     const sa = lattice.sizes[i - 2]!
     const sb = lattice.sizes[i - 1]!
     const sc = lattice.sizes[i]!
     const pair = lattice.pair(i)
-    const triple = lattice.triple(i)
+    const triple = lattice.triple(i) ?? (zeros ??= new Float64Array(maxSize * maxSize * maxSize))
     const offset = offsets[i]!
     for (let b = 0; b < sb; b++) {
       for (let c = 0; c < sc; c++) {
         let best = Infinity
         let bestA = 0
         for (let a = 0; a < sa; a++) {
-          const v = prev[a * sb + b]! + (triple ? triple[(a * sb + b) * sc + c]! : 0)
+          const v = prev[a * sb + b]! + triple[(a * sb + b) * sc + c]!
           if (v < best) {
             best = v
             bestA = a
@@ -249,22 +251,26 @@ function linearPosteriors(lattice: Lattice, temperature: number, layout: StateLa
     }
     rescale(alpha, here, sb * sc, largest)
   }
-  const beta = new Float64Array(states)
-  beta.fill(1, offsets[n - 1]!)
+  // Beta is kept only for the item at hand and the one before it, in two buffers that swap: each
+  // item's marginals are taken as soon as its beta is complete.
+  const stateCount = layout.maxSize * layout.maxSize
+  let beta = new Float64Array(stateCount).fill(1)
+  let betaBefore = new Float64Array(stateCount)
+  const marginals: Float64Array[] = new Array(n)
   // What follows item i − 1 in state b through each option c of item i, whatever came before b.
   const after = new Float64Array(layout.maxSize)
   for (let i = n - 1; i >= 1; i--) {
     const sb = sizes[i - 1]!
     const sc = sizes[i]!
     const here = offsets[i]!
+    marginals[i] = marginal(alpha, here, sb * sc, sc, beta)
     const sa = i >= 2 ? sizes[i - 2]! : 1
-    const out = i >= 2 ? offsets[i - 1]! : 0
     const weights = triples[i] ?? null
     let largest = 0
     for (let b = 0; b < sb; b++) {
       let whole = 0
       for (let c = 0; c < sc; c++) {
-        after[c] = own[here + b * sc + c]! * beta[here + b * sc + c]!
+        after[c] = own[here + b * sc + c]! * beta[b * sc + c]!
         whole += after[c]!
       }
       for (let a = 0; a < sa; a++) {
@@ -274,29 +280,32 @@ function linearPosteriors(lattice: Lattice, temperature: number, layout: StateLa
           sum = 0
           for (let c = 0; c < sc; c++) sum += after[c]! * weights[(a * sb + b) * sc + c]!
         }
-        beta[out + a * sb + b] = sum
+        betaBefore[a * sb + b] = sum
         largest = Math.max(largest, sum)
       }
     }
-    rescale(beta, out, sa * sb, largest)
+    rescale(betaBefore, 0, sa * sb, largest)
+    const swap = beta
+    beta = betaBefore
+    betaBefore = swap
   }
-  const marginals: Float64Array[] = new Array(n)
-  for (let i = 0; i < n; i++) {
-    const sc = sizes[i]!
-    const from = offsets[i]!
-    const marginal = new Float64Array(sc)
-    let z = 0
-    for (let j = from; j < offsets[i + 1]!; j += sc) {
-      for (let c = 0; c < sc; c++) {
-        const joint = alpha[j + c]! * beta[j + c]!
-        marginal[c] = marginal[c]! + joint
-        z += joint
-      }
-    }
-    rescale(marginal, 0, sc, z)
-    marginals[i] = marginal
-  }
+  marginals[0] = marginal(alpha, 0, sizes[0]!, sizes[0]!, beta)
   return marginals
+}
+
+/** The posterior of each of an item's sc options from its `count` states' alpha (at `from`) and beta (at 0). */
+function marginal(alpha: Float64Array, from: number, count: number, sc: number, beta: Float64Array): Float64Array {
+  const out = new Float64Array(sc)
+  let z = 0
+  for (let j = 0; j < count; j += sc) {
+    for (let c = 0; c < sc; c++) {
+      const joint = alpha[from + j + c]! * beta[j + c]!
+      out[c] = out[c]! + joint
+      z += joint
+    }
+  }
+  rescale(out, 0, sc, z)
+  return out
 }
 
 /**
