@@ -49,11 +49,51 @@ export function leastSquaresLine(xs: readonly number[], ys: readonly number[]): 
   return { slope, intercept: my - slope * mx }
 }
 
-/** Median of a non-empty list; null for an empty one. */
+/** Median of a non-empty list of finite numbers; null for an empty one. */
 export function median(values: readonly number[]): number | null {
   if (values.length === 0) return null
-  // A typed array sorts numerically without a comparator call per comparison.
-  const sorted = new Float64Array(values).sort()
-  const mid = sorted.length >> 1
-  return sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2
+  const copy = new Float64Array(values)
+  const mid = copy.length >> 1
+  const upper = select(copy, mid)
+  if (copy.length % 2) return upper
+  // Selection leaves every value before `mid` no larger, so the lower middle is the largest of them.
+  let lower = copy[0]!
+  for (let k = 1; k < mid; k++) lower = Math.max(lower, copy[k]!)
+  return (lower + upper) / 2
+}
+
+/** Partition rounds after which selection gives up on its pivots and sorts what is left. */
+const SELECT_ROUNDS = 64
+
+/**
+ * The k-th smallest value (0-based), leaving no larger value before index k: quickselect, linear on
+ * average where sorting is not. Input chosen to keep the pivots lopsided cannot make it quadratic,
+ * since after SELECT_ROUNDS partitions the rest is sorted.
+ */
+function select(values: Float64Array, k: number): number {
+  let lo = 0
+  let hi = values.length - 1
+  for (let round = 0; lo < hi; round++) {
+    if (round === SELECT_ROUNDS) {
+      values.subarray(lo, hi + 1).sort()
+      break
+    }
+    const pivot = values[(lo + hi) >> 1]!
+    let i = lo
+    let j = hi
+    while (i <= j) {
+      while (values[i]! < pivot) i++
+      while (values[j]! > pivot) j--
+      if (i <= j) {
+        const swap = values[i]!
+        values[i++] = values[j]!
+        values[j--] = swap
+      }
+    }
+    // Now [lo, j] holds values up to the pivot, [i, hi] values from it, and anything between equals it.
+    if (k <= j) hi = j
+    else if (k >= i) lo = i
+    else break
+  }
+  return values[k]!
 }
