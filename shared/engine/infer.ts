@@ -209,7 +209,12 @@ function withEvidence(base: LineLattice, table: SpanRow[][], items: Item[], note
     const keysC = base.keys[i]!
     if (keysB.length === 1 && keysC.length === 1) {
       const moves = singleNoteMoves(table, keysC[0]! - keysB[0]!)
-      for (let j = 0; j < sb * sc; j++) costs[j] = basePair[j]! + velocity[j % sc]! - moveCost[moves[j]!]!
+      for (let b = 0; b < sb; b++) {
+        for (let c = 0; c < sc; c++) {
+          const j = b * sc + c
+          costs[j] = basePair[j]! + velocity[c]! - moveCost[moves[j]!]!
+        }
+      }
     }
     else {
       const from = touchesOf(i - 1)
