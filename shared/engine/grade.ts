@@ -78,13 +78,15 @@ function plannedPositionStarts(hand: Hand, targets: Target[], handSize: GradeOpt
     ? suggestFingering({ hand, notes: line, handSize }).fingers
     : null
   const fingers = items.map((item, k): Finger | Finger[] => {
-    const fill = (t: Target, member: number): Finger => {
-      const s = suggested?.[k]
-      return t.finger ?? (Array.isArray(s) ? s[member]! : s!)
-    }
-    return item.length === 1 ? fill(item[0]!, 0) : item.map(fill)
+    const s = suggested?.[k]
+    return item.length === 1 ? plannedFinger(item[0]!, s, 0) : item.map((t, member) => plannedFinger(t, s, member))
   })
   return positionStarts(hand, line, fingers, handSize).map(k => items[k]![0]!.index)
+}
+
+/** A drill note's planned finger: the teacher's, or else the suggestion's for its place in the item. */
+function plannedFinger(t: Target, suggested: Finger | Finger[] | undefined, member: number): Finger {
+  return t.finger ?? (Array.isArray(suggested) ? suggested[member]! : suggested!)
 }
 
 interface Inferred {
