@@ -387,10 +387,13 @@ export function fitsPosition(table: SpanRow[][], a: Touch, b: Touch): boolean {
  * beyond the comfortable range), which is how teachers mark a "new position" in a drill.
  */
 export function positionStarts(hand: Hand, items: LineItem[], fingers: (Finger | Finger[])[], handSize: HandSize = 'medium'): number[] {
-  const table = spanTable(handSize)
+  return touchPositionStarts(lineTouches(hand, items, fingers), spanTable(handSize))
+}
+
+/** positionStarts for a line already given as touches (keys in right-hand space, ascending in each item). */
+export function touchPositionStarts(line: Touch[][], table: SpanRow[][]): number[] {
   const starts: number[] = []
   let current: Touch[] = []
-  const line = lineTouches(hand, items, fingers)
   for (let i = 0; i < line.length; i++) {
     const touches = line[i]!
     if (touches.length === 0) continue

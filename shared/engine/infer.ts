@@ -1,12 +1,11 @@
 // The fingering a student probably used, from what they played: ergonomic prior plus timing and velocity evidence.
 import { cheapestPath, optionPosteriors, type Lattice } from './chain'
-import { costModel, fitsPosition, PERFORMANCE_WEIGHTS, positionStarts, type Touch } from './ergonomics'
+import { costModel, fitsPosition, PERFORMANCE_WEIGHTS, touchPositionStarts, type Touch } from './ergonomics'
 import { chosenTouches, lineLattice, type LineLattice } from './lattice'
 import { pairSpan, MAX_PRAC, MIN_PRAC, type SpanRow } from './spans'
 import { median } from './stats'
-import { fingersForItems } from './suggest'
 import { toRightHandSpace } from './touches'
-import type { Finger, Hand, HandSize, LineItem } from './types'
+import type { Finger, Hand, HandSize } from './types'
 
 export interface PerformedNote { midi: number, onMs: number, offMs: number | null, velocity: number }
 export interface InferResult { fingers: { finger: Finger, confidence: number }[], positions: number[] }
@@ -256,8 +255,6 @@ export function inferFingering(hand: Hand, notes: PerformedNote[], handSize: Han
       fingers[n] = { finger, confidence: Math.min(1, Math.max(0, confidence)) }
     }
   }
-  const lineItems: LineItem[] = items.map(item => (item.notes.length === 1 ? notes[item.notes[0]!]!.midi : item.notes.map(n => notes[n]!.midi)))
-  const itemFingers = fingersForItems(hand, lineItems, chosen)
-  const positions = positionStarts(hand, lineItems, itemFingers, handSize).map(i => items[i]!.notes[0]!)
+  const positions = touchPositionStarts(chosen, model.table).map(i => items[i]!.notes[0]!)
   return { fingers, positions }
 }

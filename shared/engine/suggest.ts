@@ -80,7 +80,7 @@ function withPenalty(lattice: Lattice, penalty: (i: number, finger: Finger) => n
 }
 
 /** The result's fingers: a number per single note, an array per chord, low to high in pitch. */
-export function fingersForItems(hand: Hand, items: LineItem[], touches: Touch[][]): (Finger | Finger[])[] {
+function fingersForItems(hand: Hand, items: LineItem[], touches: Touch[][]): (Finger | Finger[])[] {
   return items.map((item, i) => {
     if (!Array.isArray(item)) return touches[i]![0]?.f ?? 1
     const byKey = new Map(touches[i]!.map(t => [t.k, t.f]))
