@@ -26,40 +26,43 @@ function argmin(values: ArrayLike<number>, length: number): number {
   return best
 }
 
-/** The cheapest path (Viterbi over state pairs). */
+/**
+ * The cheapest path (Viterbi over state pairs). The passes are functions of their own, each one loop,
+ * so that the engine optimises each whole rather than re-entering one long function mid-loop.
+ */
 export function cheapestPath(lattice: Lattice): ChainPath {
   const n = lattice.sizes.length
   if (n === 0) return { path: [], cost: 0 }
-  const first = lattice.first()
-  const s0 = lattice.sizes[0]!
   if (n === 1) {
-    const best = argmin(first, s0)
+    const first = lattice.first()
+    const best = argmin(first, lattice.sizes[0]!)
     return { path: [best], cost: first[best]! }
   }
-  let maxSize = 1
-  let backLength = 0
-  const offsets = new Int32Array(n)
-  for (let i = 0; i < n; i++) {
-    maxSize = Math.max(maxSize, lattice.sizes[i]!)
-    if (i >= 2) {
-      offsets[i] = backLength
-      backLength += lattice.sizes[i - 1]! * lattice.sizes[i]!
-    }
-  }
-  const back = new Int8Array(backLength)
+  const layout = stateLayout(lattice)
+  // The best option at item i − 2 for each state (b, c) of item i, in the states' layout.
+  const back = new Int8Array(layout.offsets[n]!)
+  const last = viterbi(lattice, layout, back)
+  return tracePath(layout, back, last)
+}
+
+/** Fills `back` and returns the cheapest cost into each state of the last item. */
+function viterbi(lattice: Lattice, layout: StateLayout, back: Int8Array): Float64Array {
+  const { sizes, offsets, maxSize } = layout
+  const first = lattice.first()
   let prev = new Float64Array(maxSize * maxSize)
   let next = new Float64Array(maxSize * maxSize)
-  const s1 = lattice.sizes[1]!
+  const s0 = sizes[0]!
+  const s1 = sizes[1]!
   const pair1 = lattice.pair(1)
   for (let b = 0; b < s0; b++) {
     for (let c = 0; c < s1; c++) prev[b * s1 + c] = first[b]! + pair1[b * s1 + c]!
   }
   // Items without a triple term read zeros, so that the innermost loop has no branch on it.
   let zeros: Float64Array | null = null
-  for (let i = 2; i < n; i++) {
-    const sa = lattice.sizes[i - 2]!
-    const sb = lattice.sizes[i - 1]!
-    const sc = lattice.sizes[i]!
+  for (let i = 2; i < sizes.length; i++) {
+    const sa = sizes[i - 2]!
+    const sb = sizes[i - 1]!
+    const sc = sizes[i]!
     const pair = lattice.pair(i)
     const triple = lattice.triple(i) ?? (zeros ??= new Float64Array(maxSize * maxSize * maxSize))
     const offset = offsets[i]!
@@ -82,16 +85,20 @@ export function cheapestPath(lattice: Lattice): ChainPath {
     prev = next
     next = swap
   }
-  const sb = lattice.sizes[n - 2]!
-  const sc = lattice.sizes[n - 1]!
-  const last = argmin(prev, sb * sc)
+  return prev
+}
+
+/** The path back from the cheapest state of the last item. */
+function tracePath(layout: StateLayout, back: Int8Array, last: Float64Array): ChainPath {
+  const { sizes, offsets } = layout
+  const n = sizes.length
+  const sc = sizes[n - 1]!
+  const end = argmin(last, sizes[n - 2]! * sc)
   const path = new Array<number>(n)
-  path[n - 1] = last % sc
-  path[n - 2] = Math.floor(last / sc)
-  for (let i = n - 1; i >= 2; i--) {
-    path[i - 2] = back[offsets[i]! + path[i - 1]! * lattice.sizes[i]! + path[i]!]!
-  }
-  return { path, cost: prev[last]! }
+  path[n - 1] = end % sc
+  path[n - 2] = Math.floor(end / sc)
+  for (let i = n - 1; i >= 2; i--) path[i - 2] = back[offsets[i]! + path[i - 1]! * sizes[i]! + path[i]!]!
+  return { path, cost: last[end]! }
 }
 
 /** The total cost of one path through the lattice. */
@@ -165,12 +172,14 @@ interface StateLayout { sizes: Int32Array, offsets: Int32Array, maxSize: number 
 
 function stateLayout(lattice: Lattice): StateLayout {
   const n = lattice.sizes.length
-  const sizes = Int32Array.from(lattice.sizes)
+  const sizes = new Int32Array(n)
   const offsets = new Int32Array(n + 1)
-  offsets[1] = sizes[0]!
-  for (let i = 1; i < n; i++) offsets[i + 1] = offsets[i]! + sizes[i - 1]! * sizes[i]!
   let maxSize = 1
-  for (let i = 0; i < n; i++) maxSize = Math.max(maxSize, sizes[i]!)
+  for (let i = 0; i < n; i++) {
+    sizes[i] = lattice.sizes[i]!
+    offsets[i + 1] = i === 0 ? sizes[0]! : offsets[i]! + sizes[i - 1]! * sizes[i]!
+    maxSize = Math.max(maxSize, sizes[i]!)
+  }
   return { sizes, offsets, maxSize }
 }
 
@@ -214,11 +223,22 @@ export function optionPosteriors(lattice: Lattice, temperature: number): Float64
  * weights are normalised to sum 1.
  */
 function linearPosteriors(lattice: Lattice, temperature: number, layout: StateLayout): Float64Array[] | null {
+  const weights = linearTables(lattice, temperature, layout)
+  if (!weights) return null
+  return backwardMarginals(weights, forward(weights, layout), layout)
+}
+
+/** Each state's own weight and each item's triple weights, for the linear passes. */
+interface LinearTables {
+  /** The first table's weights at item 0, the pair table's after it, in the states' layout. */
+  own: Float64Array
+  triples: (Float64Array | null)[]
+}
+
+function linearTables(lattice: Lattice, temperature: number, layout: StateLayout): LinearTables | null {
   const { sizes, offsets } = layout
   const n = sizes.length
-  const states = offsets[n]!
-  // Each state's own weight: the first table's at item 0, the pair table's after it, in the states' layout.
-  const own = new Float64Array(states)
+  const own = new Float64Array(offsets[n]!)
   if (!linearWeights(lattice.first(), sizes[0]!, temperature, own, 0)) return null
   const triples: (Float64Array | null)[] = new Array(n).fill(null)
   for (let i = 1; i < n; i++) {
@@ -229,7 +249,14 @@ function linearPosteriors(lattice: Lattice, temperature: number, layout: StateLa
     if (!(span <= LINEAR_SPAN)) return null
     triples[i] = weights
   }
-  const alpha = new Float64Array(states)
+  return { own, triples }
+}
+
+/** Alpha of every state, each item rescaled to a largest state of 1. */
+function forward({ own, triples }: LinearTables, layout: StateLayout): Float64Array {
+  const { sizes, offsets } = layout
+  const n = sizes.length
+  const alpha = new Float64Array(offsets[n]!)
   alpha.set(own.subarray(0, sizes[0]!))
   for (let i = 1; i < n; i++) {
     const sb = sizes[i - 1]!
@@ -251,8 +278,16 @@ function linearPosteriors(lattice: Lattice, temperature: number, layout: StateLa
     }
     rescale(alpha, here, sb * sc, largest)
   }
-  // Beta is kept only for the item at hand and the one before it, in two buffers that swap: each
-  // item's marginals are taken as soon as its beta is complete.
+  return alpha
+}
+
+/**
+ * The backward pass, taking each item's marginals as soon as its beta is complete; beta is kept only
+ * for the item at hand and the one before it, in two buffers that swap.
+ */
+function backwardMarginals({ own, triples }: LinearTables, alpha: Float64Array, layout: StateLayout): Float64Array[] {
+  const { sizes, offsets } = layout
+  const n = sizes.length
   const stateCount = layout.maxSize * layout.maxSize
   let beta = new Float64Array(stateCount).fill(1)
   let betaBefore = new Float64Array(stateCount)
