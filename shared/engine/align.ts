@@ -99,18 +99,28 @@ function playedOrder(played: readonly AlignPlayed[], windowMs: number): { order:
   return { order, grouped }
 }
 
-/** Both sides in canonical order, as the programme reads them. */
-interface Lines {
+/**
+ * Both sides in canonical order, as the programme reads them: made once for any number of alignments
+ * that differ only in timing (grading aligns twice). Its fields are the module's own business.
+ */
+export interface AlignmentSides {
+  /** Indices of the drill notes and of the played notes in canonical order. */
+  targetOrder: number[]
+  playedOrder: number[]
   tMidi: Int32Array
   pMidi: Int32Array
   tBeat: Float64Array
   pOn: Float64Array
+  /** Whether a played note shares a chord-window group with the one before. */
+  grouped: Uint8Array
+}
+
+/** The sides with one alignment's timing. */
+interface Lines extends AlignmentSides {
   /** Each drill note's written time in ms at the played tempo (all 0 without one). */
   tMs: Float64Array
   /** Cost units per ms off; 0 when intervals are not compared. */
   perMs: number
-  /** Whether a played note shares a chord-window group with the one before. */
-  grouped: Uint8Array
 }
 
 /**
@@ -157,9 +167,9 @@ function mayCross(lines: Lines, i: number, j: number): boolean {
 }
 
 /**
- * Fills both layers row by row. Kept apart from alignNotes, with its helpers at module level, so that
- * no closure captures the arrays and the engine keeps them in registers over the hot loop. Every cell
- * of the band is written once (unreachable ones with INF), and the cell to the left is carried in
+ * Fills both layers row by row. Kept apart from the other steps, with its helpers at module level, so
+ * that no closure captures the arrays and the engine keeps them in registers over the hot loop. Every
+ * cell of the band is written once (unreachable ones with INF), and the cell to the left is carried in
  * locals rather than read back.
  */
 function fillBand(band: Band, lines: Lines): void {
@@ -267,41 +277,55 @@ function fillBand(band: Band, lines: Lines): void {
 }
 
 export function alignNotes(targets: readonly AlignTarget[], played: readonly AlignPlayed[], options: AlignOptions = {}): Alignment {
+  return alignSides(alignmentSides(targets, played, options.chordWindowMs), options)
+}
+
+export function alignmentSides(targets: readonly AlignTarget[], played: readonly AlignPlayed[], chordWindowMs = CHORD_WINDOW_MS): AlignmentSides {
   const ti = targetOrder(targets)
-  const { order: pi, grouped } = playedOrder(played, options.chordWindowMs ?? CHORD_WINDOW_MS)
-  const n = ti.length
-  const m = pi.length
-  const tMidi = inOrder(new Int32Array(n), ti, i => targets[i]!.midi)
-  const pMidi = inOrder(new Int32Array(m), pi, i => played[i]!.midi)
-  const tBeat = inOrder(new Float64Array(n), ti, i => targets[i]!.beat)
-  const pOn = inOrder(new Float64Array(m), pi, i => played[i]!.onMs)
-  const timed = options.msPerBeat !== undefined && options.msPerBeat > 0
-  const lines: Lines = {
-    tMidi,
-    pMidi,
-    tBeat,
-    pOn,
-    // Each drill note's written time in ms at the played tempo, and cost units per ms off.
-    tMs: tBeat.map(b => b * (timed ? options.msPerBeat! : 0)),
-    perMs: timed ? TIME_MAX / (options.toleranceMs && options.toleranceMs > 0 ? options.toleranceMs : options.msPerBeat!) : 0,
+  const { order: pi, grouped } = playedOrder(played, chordWindowMs)
+  return {
+    targetOrder: ti,
+    playedOrder: pi,
+    tMidi: inOrder(new Int32Array(ti.length), ti, i => targets[i]!.midi),
+    pMidi: inOrder(new Int32Array(pi.length), pi, i => played[i]!.midi),
+    tBeat: inOrder(new Float64Array(ti.length), ti, i => targets[i]!.beat),
+    pOn: inOrder(new Float64Array(pi.length), pi, i => played[i]!.onMs),
     grouped,
   }
+}
 
+/** The alignment of prepared sides; intervals are compared when the timing gives a tempo. */
+export function alignSides(sides: AlignmentSides, timing: Pick<AlignOptions, 'msPerBeat' | 'toleranceMs'> = {}): Alignment {
+  const { msPerBeat, toleranceMs } = timing
+  const timed = msPerBeat !== undefined && msPerBeat > 0
+  const lines: Lines = {
+    ...sides,
+    // Each drill note's written time in ms at the played tempo, and cost units per ms off.
+    tMs: sides.tBeat.map(b => b * (timed ? msPerBeat : 0)),
+    perMs: timed ? TIME_MAX / (toleranceMs && toleranceMs > 0 ? toleranceMs : msPerBeat) : 0,
+  }
+  const band = bandFor(sides.tMidi.length, sides.pMidi.length)
+  fillBand(band, lines)
+  return traceBack(band, sides)
+}
+
+/** The band around the diagonal for n drill and m played notes, its rings and moves not yet filled. */
+function bandFor(n: number, m: number): Band {
   const rows = n + 1
   const width = Math.max(1, Math.min(Math.abs(n - m) + BAND_MARGIN, Math.floor(MAX_CELLS / rows / 2)))
   const lo = new Int32Array(rows)
   const hi = new Int32Array(rows)
   const rowStart = new Int32Array(rows + 1)
+  let ringWidth = 0
   for (let i = 0; i <= n; i++) {
     const centre = n === 0 ? 0 : Math.round((i * m) / n)
     lo[i] = i === 0 ? 0 : Math.max(0, centre - width)
     hi[i] = i === n ? m : Math.min(m, centre + width)
     rowStart[i + 1] = rowStart[i]! + hi[i]! - lo[i]! + 1
+    ringWidth = Math.max(ringWidth, hi[i]! - lo[i]! + 1)
   }
   const cells = rowStart[rows]!
-  let ringWidth = 0
-  for (let i = 0; i <= n; i++) ringWidth = Math.max(ringWidth, hi[i]! - lo[i]! + 1)
-  const band: Band = {
+  return {
     lo,
     hi,
     rowStart,
@@ -313,34 +337,34 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
     lastTargetG: new Int32Array(3 * ringWidth),
     lastPlayedG: new Int32Array(3 * ringWidth),
   }
-  fillBand(band, lines)
-  const { traceM, traceG } = band
-  const cell = (i: number, j: number): number => rowStart[i]! - lo[i]! + j
+}
 
-  const match = new Array<number | null>(targets.length).fill(null)
-  const outcome = new Array<AlignOutcome>(targets.length).fill('missed')
-  const pair = (ti1: number, pj1: number): void => {
-    const target = ti[ti1]!
-    match[target] = pi[pj1]!
-    outcome[target] = tMidi[ti1] === pMidi[pj1] ? 'correct' : 'wrong'
+/** Follows the moves back from the cheaper layer at (drill, played), pairing notes and collecting extras. */
+function traceBack(band: Band, sides: AlignmentSides): Alignment {
+  const { lo, rowStart, traceM, traceG } = band
+  const n = sides.targetOrder.length
+  const alignment: Alignment = {
+    match: new Array<number | null>(n).fill(null),
+    outcome: new Array<AlignOutcome>(n).fill('missed'),
+    extras: [],
+    counts: { correct: 0, wrong: 0, extra: 0, missed: 0 },
   }
-  const extrasReversed: number[] = []
   let i = n
-  let j = m
-  const last = ringRow(band, n) + m
+  let j = sides.playedOrder.length
+  const last = ringRow(band, i) + j
   let inM = band.costM[last]! <= band.costG[last]!
   while (i > 0 || j > 0) {
-    const here = cell(i, j)
+    const here = rowStart[i]! - lo[i]! + j
     if (inM) {
       const move = traceM[here]!
       if (move === SWAP_FROM_M || move === SWAP_FROM_G) {
-        pair(i - 1, j - 2)
-        pair(i - 2, j - 1)
+        pairUp(sides, alignment, i - 1, j - 2)
+        pairUp(sides, alignment, i - 2, j - 1)
         i -= 2
         j -= 2
       }
       else {
-        pair(i - 1, j - 1)
+        pairUp(sides, alignment, i - 1, j - 1)
         i--
         j--
       }
@@ -352,14 +376,26 @@ export function alignNotes(targets: readonly AlignTarget[], played: readonly Ali
         i--
       }
       else {
-        extrasReversed.push(pi[j - 1]!)
+        alignment.extras.push(sides.playedOrder[j - 1]!)
         j--
       }
       inM = move === UP_FROM_M || move === LEFT_FROM_M
     }
   }
+  // Extras were met last first.
+  alignment.extras.reverse()
+  const { counts } = alignment
+  counts.extra = alignment.extras.length
+  counts.missed = n - counts.correct - counts.wrong
+  return alignment
+}
 
-  const counts = { correct: 0, wrong: 0, extra: extrasReversed.length, missed: 0 }
-  for (const o of outcome) counts[o]++
-  return { match, outcome, extras: extrasReversed.reverse(), counts }
+/** Records drill note t as answered by played note p (canonical indices). */
+function pairUp(sides: AlignmentSides, alignment: Alignment, t: number, p: number): void {
+  const target = sides.targetOrder[t]!
+  const correct = sides.tMidi[t] === sides.pMidi[p]
+  alignment.match[target] = sides.playedOrder[p]!
+  alignment.outcome[target] = correct ? 'correct' : 'wrong'
+  if (correct) alignment.counts.correct++
+  else alignment.counts.wrong++
 }

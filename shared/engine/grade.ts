@@ -13,7 +13,7 @@
 //   Every part but accuracy is multiplied by the share of drill notes played (correct + wrong),
 //   so three clean notes out of a hundred do not earn the timing and tempo marks. Where no note
 //   carried a velocity (on-screen keys), loudness drops out and the other weights are rescaled.
-import { alignNotes, type Alignment } from './align'
+import { alignmentSides, alignSides, type Alignment } from './align'
 import { positionStarts } from './ergonomics'
 import { noteHand } from './hands'
 import { inferFingering, type PerformedNote } from './infer'
@@ -148,15 +148,17 @@ function fitOnsets(targets: Target[], matched: (PlayedNote | null)[]): { xs: num
 
 /**
  * Pitch and order first; then again with the tempo that alignment implies, so that time
- * decides between equally good matches (a repeated key, a doubled note).
+ * decides between equally good matches (a repeated key, a doubled note). Both passes read the
+ * same sides, put in order once.
  */
 function alignWithTime(targets: Target[], played: PlayedNote[], step: number | null): Alignment {
-  const first = alignNotes(targets, played)
+  const sides = alignmentSides(targets, played)
+  const first = alignSides(sides)
   // Without a missed or an extra note there is nothing for time to settle.
   if (first.counts.missed === 0 && first.counts.extra === 0) return first
   const { line } = fitOnsets(targets, first.match.map(k => (k === null ? null : played[k]!)))
   if (!line || !step) return first
-  return alignNotes(targets, played, { msPerBeat: line.slope, toleranceMs: line.slope * step })
+  return alignSides(sides, { msPerBeat: line.slope, toleranceMs: line.slope * step })
 }
 
 function measureTiming(targets: Target[], matched: (PlayedNote | null)[], step: number | null): Timing {
