@@ -298,10 +298,12 @@ export function alignmentSides(targets: readonly AlignTarget[], played: readonly
 export function alignSides(sides: AlignmentSides, timing: Pick<AlignOptions, 'msPerBeat' | 'toleranceMs'> = {}): Alignment {
   const { msPerBeat, toleranceMs } = timing
   const timed = msPerBeat !== undefined && msPerBeat > 0
+  // Each drill note's written time in ms at the played tempo, and cost units per ms off.
+  const tMs = new Float64Array(sides.tBeat.length)
+  for (let k = 0; k < tMs.length; k++) tMs[k] = sides.tBeat[k]! * (timed ? msPerBeat : 0)
   const lines: Lines = {
     ...sides,
-    // Each drill note's written time in ms at the played tempo, and cost units per ms off.
-    tMs: sides.tBeat.map(b => b * (timed ? msPerBeat : 0)),
+    tMs,
     perMs: timed ? TIME_MAX / (toleranceMs && toleranceMs > 0 ? toleranceMs : msPerBeat) : 0,
   }
   const band = bandFor(sides.tMidi.length, sides.pMidi.length)
