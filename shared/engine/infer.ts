@@ -53,12 +53,12 @@ interface Item { notes: number[], onMs: number, releaseMs: number | null }
 
 function groupChords(notes: PerformedNote[]): Item[] {
   const items: Item[] = []
-  notes.forEach((note, i) => {
-    const on = finite(note.onMs, 0)
+  for (let i = 0; i < notes.length; i++) {
+    const on = finite(notes[i]!.onMs, 0)
     const last = items[items.length - 1]
     if (last && on - last.onMs <= CHORD_WINDOW_MS) last.notes.push(i)
     else items.push({ notes: [i], onMs: on, releaseMs: null })
-  })
+  }
   for (const item of items) {
     // The chord is released when its last note is, and unknown when any note's release is.
     let release: number | null = -Infinity
@@ -122,19 +122,33 @@ function singleNoteMoves(table: SpanRow[][], interval: number): Uint8Array {
 interface Timing { detached: number | null, connected: number | null, late: number | null }
 
 function timingOf(items: Item[]): Timing[] {
-  const gaps = items.map((item, i) => (i > 0 && items[i - 1]!.releaseMs !== null ? item.onMs - items[i - 1]!.releaseMs! : null))
-  const iois = items.map((item, i) => (i > 0 ? item.onMs - items[i - 1]!.onMs : null))
-  const usualGap = median(gaps.filter((g): g is number => g !== null))
-  const usualIoi = median(iois.filter((v): v is number => v !== null && v > 0))
-  return items.map((_, i) => {
-    const gap = gaps[i]
-    const ioi = iois[i]
-    return {
-      detached: gap == null || usualGap === null ? null : logistic((gap - usualGap - DETACHED_MS) / 10),
-      connected: gap == null ? null : logistic((CONNECTED_MS - gap) / 5),
-      late: ioi == null || !usualIoi ? null : logistic((ioi / usualIoi - 1 - LATE_RATIO) / 0.08),
+  const gaps: number[] = []
+  const iois: number[] = []
+  for (let i = 1; i < items.length; i++) {
+    const gap = gapBefore(items, i)
+    if (gap !== null) gaps.push(gap)
+    const ioi = items[i]!.onMs - items[i - 1]!.onMs
+    if (ioi > 0) iois.push(ioi)
+  }
+  const usualGap = median(gaps)
+  const usualIoi = median(iois)
+  const timings: Timing[] = new Array(items.length)
+  for (let i = 0; i < items.length; i++) {
+    const gap = i > 0 ? gapBefore(items, i) : null
+    const ioi = i > 0 ? items[i]!.onMs - items[i - 1]!.onMs : null
+    timings[i] = {
+      detached: gap === null || usualGap === null ? null : logistic((gap - usualGap - DETACHED_MS) / 10),
+      connected: gap === null ? null : logistic((CONNECTED_MS - gap) / 5),
+      late: ioi === null || !usualIoi ? null : logistic((ioi / usualIoi - 1 - LATE_RATIO) / 0.08),
     }
-  })
+  }
+  return timings
+}
+
+/** The silence between item i − 1's release and item i's onset, or null where that release is unknown. */
+function gapBefore(items: Item[], i: number): number | null {
+  const release = items[i - 1]!.releaseMs
+  return release === null ? null : items[i]!.onMs - release
 }
 
 function accentsOf(notes: PerformedNote[]): number[] {
