@@ -63,11 +63,23 @@ function scaleRow(row: SpanRow, factor: number): SpanRow {
   return [reach(row[0]), reach(row[1]), reach(row[2]), row[3] * factor, row[4] * factor, row[5] * factor]
 }
 
+const tables = new Map<HandSize, SpanRow[][]>()
+
 /**
  * The span table used by the model for one hand size, indexed [lower finger][higher finger]
- * (fingers 1–5; a same-finger entry is all zeros).
+ * (fingers 1–5; a same-finger entry is all zeros). Built once per hand size and shared: read it, never
+ * change it.
  */
 export function spanTable(handSize: HandSize = 'medium'): SpanRow[][] {
+  let table = tables.get(handSize)
+  if (!table) {
+    table = buildSpanTable(handSize)
+    tables.set(handSize, table)
+  }
+  return table
+}
+
+function buildSpanTable(handSize: HandSize): SpanRow[][] {
   const factor = HAND_SIZE_FACTOR[handSize]
   const table: SpanRow[][] = []
   for (let lo = 0; lo <= 5; lo++) {
