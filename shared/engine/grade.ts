@@ -96,7 +96,7 @@ interface Inferred {
 
 /** The inference over each hand's matched notes, mapped back to drill-note indices. */
 function inferPerHand(targets: Target[], matched: (PlayedNote | null)[], handSize: GradeOptions['handSize']): Inferred {
-  const fingers: GradeResult['inferredFingers'] = targets.map(() => ({ finger: null, confidence: 0 }))
+  const fingers: (GradeResult['inferredFingers'][number] | undefined)[] = new Array(targets.length)
   const at: number[] = []
   for (const hand of ['right', 'left'] as const) {
     const mine = targets.filter(t => t.hand === hand && matched[t.index] !== null)
@@ -107,13 +107,12 @@ function inferPerHand(targets: Target[], matched: (PlayedNote | null)[], handSiz
       return { midi: p.midi, onMs: p.onMs, offMs: p.offMs, velocity: p.velocity ?? NEUTRAL_VELOCITY }
     })
     const result = inferFingering(hand, notes, handSize)
-    mine.forEach((t, k) => {
-      const f = result.fingers[k]
-      if (f) fingers[t.index] = { finger: f.finger, confidence: f.confidence }
-    })
+    for (let k = 0; k < mine.length; k++) fingers[mine[k]!.index] = result.fingers[k]
     for (const k of result.positions) if (mine[k]) at.push(mine[k].index)
   }
-  return { fingers, at: at.sort((a, b) => a - b) }
+  // Missed notes, and any the inference left without a finger, have none.
+  for (let k = 0; k < fingers.length; k++) fingers[k] ??= { finger: null, confidence: 0 }
+  return { fingers: fingers as GradeResult['inferredFingers'], at: at.sort((a, b) => a - b) }
 }
 
 interface Timing {
@@ -123,10 +122,15 @@ interface Timing {
 
 /** The drill's typical step: the median gap between consecutive distinct beats. */
 function typicalStep(targets: Target[]): number | null {
-  // A typed array sorts numerically without a comparator call per comparison.
+  // Drills mostly list their notes in beat order already; otherwise a typed array sorts numerically
+  // without a comparator call per comparison.
   const beats = new Float64Array(targets.length)
-  for (let k = 0; k < targets.length; k++) beats[k] = targets[k]!.beat
-  beats.sort()
+  let ascending = true
+  for (let k = 0; k < targets.length; k++) {
+    beats[k] = targets[k]!.beat
+    if (k > 0 && beats[k]! < beats[k - 1]!) ascending = false
+  }
+  if (!ascending) beats.sort()
   const gaps: number[] = []
   for (let k = 1; k < beats.length; k++) if (beats[k] !== beats[k - 1]) gaps.push(beats[k]! - beats[k - 1]!)
   return median(gaps)
@@ -162,7 +166,7 @@ function alignWithTime(targets: Target[], played: PlayedNote[], step: number | n
 }
 
 function measureTiming(targets: Target[], matched: (PlayedNote | null)[], step: number | null): Timing {
-  const deviationsMs: (number | null)[] = targets.map(() => null)
+  const deviationsMs = new Array<number | null>(targets.length).fill(null)
   const { xs, ys, line } = fitOnsets(targets, matched)
   if (!line) return { timing: { sdMs: null, cvPercent: null, ioiVariationPercent: null, deviationsMs }, msPerBeat: null }
   const msPerBeat = line.slope
