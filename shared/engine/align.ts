@@ -128,8 +128,9 @@ interface Lines extends AlignmentSides {
  * notes ending in a pairing (M) or in a missed or extra note (G), so that an interval is judged between
  * two pairings that really follow each other on the chosen path. G carries that path's last pairing
  * across the gap. Only the moves are kept for every cell (at rowStart[i] − lo[i] + j), for the
- * traceback; costs and last pairings only for the last three rows (a crossing looks two rows back), in
- * rings with row i at (i % 3) · ringWidth − lo[i], so that the rows the loop reads stay in cache.
+ * traceback; costs only for the last three rows (a crossing looks two rows back), in rings that each
+ * fill makes for itself, row i at (i % 3) · ringWidth − lo[i], so that the rows the loop reads stay in
+ * cache.
  */
 interface Band {
   lo: Int32Array
@@ -138,10 +139,6 @@ interface Band {
   traceM: Uint8Array
   traceG: Uint8Array
   ringWidth: number
-  costM: Int32Array
-  costG: Int32Array
-  lastTargetG: Int32Array
-  lastPlayedG: Int32Array
 }
 
 /** A value of each item in the given order (TypedArray.from with a mapping function is several times slower). */
@@ -167,14 +164,33 @@ function mayCross(lines: Lines, i: number, j: number): boolean {
 }
 
 /**
- * Fills both layers row by row. Kept apart from the other steps, with its helpers at module level, so
- * that no closure captures the arrays and the engine keeps them in registers over the hot loop. Every
- * cell of the band is written once (unreachable ones with INF), and the cell to the left is carried in
- * locals rather than read back.
+ * Whether cell (i, j) may be reached by matching drill notes i − 2, i − 1 crosswise with played notes
+ * j − 2, j − 1 (1-based): each pitch answers the other's, the two differ, mayCross allows it, and the
+ * cell two rows up lies in the band.
  */
-function fillBand(band: Band, lines: Lines): void {
-  const { lo, hi, rowStart, traceM, traceG, costM, costG, lastTargetG, lastPlayedG } = band
+function crossable(band: Band, lines: Lines, i: number, j: number): boolean {
+  if (i < 2 || j < 2) return false
+  const { tMidi, pMidi } = lines
+  const midi = tMidi[i - 1]!
+  const before = tMidi[i - 2]!
+  return before !== -1 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before
+    && mayCross(lines, i, j) && j - 2 >= band.lo[i - 2]! && j - 2 <= band.hi[i - 2]!
+}
+
+/**
+ * Fills both layers row by row, for a pass that compares intervals (fillUntimed does one that does
+ * not). Kept apart from the other steps, with its helpers at module level, so that no closure captures
+ * the arrays and the engine keeps them in registers over the hot loop. Every cell of the band is
+ * written once (unreachable ones with INF), and the cell to the left is carried in locals rather than
+ * read back. Returns whether the traceback starts in the pairing layer.
+ */
+function fillBand(band: Band, lines: Lines): boolean {
+  const { lo, hi, rowStart, traceM, traceG, ringWidth } = band
   const { tMidi, pMidi, pOn, tMs, perMs } = lines
+  const costM = new Int32Array(3 * ringWidth)
+  const costG = new Int32Array(3 * ringWidth)
+  const lastTargetG = new Int32Array(3 * ringWidth)
+  const lastPlayedG = new Int32Array(3 * ringWidth)
   const top = ringRow(band, 0)
   for (let j = 0; j <= hi[0]!; j++) {
     costM[top + j] = INF
@@ -186,7 +202,6 @@ function fillBand(band: Band, lines: Lines): void {
   // Row 0 has no pairing, so a pairing after it is judged against none.
   for (let i = 1; i < lo.length; i++) {
     const midi = tMidi[i - 1]!
-    const before = i > 1 ? tMidi[i - 2]! : -1
     const trace = rowStart[i]! - lo[i]!
     const ring = ringRow(band, i)
     const first = lo[i]!
@@ -251,8 +266,8 @@ function fillBand(band: Band, lines: Lines): void {
           m = Math.min(fromM, fromG)
           mTrace = fromM < fromG ? DIAGONAL_FROM_M : DIAGONAL_FROM_G
         }
-        if (j > 1 && before !== -1 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before
-          && mayCross(lines, i, j) && j - 2 >= lo[i - 2]! && j - 2 <= hi[i - 2]!) {
+        // Most cells fail the first test, so the rest is asked only of the few that pass it.
+        if (j > 1 && pMidi[j - 2] === midi && crossable(band, lines, i, j)) {
           const crossed = ringRow(band, i - 2) + j - 2
           const fromM = costM[crossed]!
           const fromG = costG[crossed]!
@@ -274,6 +289,84 @@ function fillBand(band: Band, lines: Lines): void {
       leftPlayed = gPlayed
     }
   }
+  // The traceback starts in the pairing layer unless the gap layer is strictly cheaper at the end.
+  const end = ringRow(band, lo.length - 1) + hi[lo.length - 1]!
+  return costM[end]! <= costG[end]!
+}
+
+/**
+ * The programme without timing, for the first pass. With no intervals to judge, what follows a cell
+ * sees its two layers only through the cheaper cost of the two and whether the pairing layer is
+ * strictly cheaper (every move out of a cell takes the minimum of its layers and names its source
+ * layer by that comparison), so one cost and one flag per cell give the same moves as fillBand, with
+ * less to carry and compare per cell. Returns whether the traceback starts in the pairing layer.
+ */
+function fillUntimed(band: Band, lines: Lines): boolean {
+  const { lo, hi, rowStart, traceM, traceG, ringWidth } = band
+  const { tMidi, pMidi } = lines
+  const cost = new Int32Array(3 * ringWidth)
+  const pairing = new Uint8Array(3 * ringWidth)
+  const top = ringRow(band, 0)
+  // Row 0 ends in gaps only (its pairing layer is unreachable), so its cost is the gaps'.
+  for (let j = 0; j <= hi[0]!; j++) {
+    cost[top + j] = j * GAP
+    traceG[j] = LEFT_FROM_G
+  }
+  let endM = INF
+  let endG = hi[0]! * GAP
+  for (let i = 1; i < lo.length; i++) {
+    const midi = tMidi[i - 1]!
+    const trace = rowStart[i]! - lo[i]!
+    const ring = ringRow(band, i)
+    const first = lo[i]!
+    const last = hi[i]!
+    const upRing = ringRow(band, i - 1)
+    const upLo = lo[i - 1]!
+    const upHi = hi[i - 1]!
+    let leftCost = INF
+    let leftPairing = 0
+    for (let j = first; j <= last; j++) {
+      let g = INF
+      let gTrace = 0
+      if (j <= upHi) {
+        const up = upRing + j
+        if (cost[up]! + GAP < g) {
+          g = cost[up]! + GAP
+          gTrace = pairing[up] ? UP_FROM_M : UP_FROM_G
+        }
+      }
+      let m = INF
+      let mTrace = 0
+      if (j > 0) {
+        if (j > first && leftCost + GAP < g) {
+          g = leftCost + GAP
+          gTrace = leftPairing ? LEFT_FROM_M : LEFT_FROM_G
+        }
+        if (j - 1 >= upLo && j - 1 <= upHi) {
+          const diagonal = upRing + j - 1
+          m = cost[diagonal]! + (pMidi[j - 1] === midi ? 0 : SUBSTITUTE)
+          mTrace = pairing[diagonal] ? DIAGONAL_FROM_M : DIAGONAL_FROM_G
+        }
+        // Most cells fail the first test, so the rest is asked only of the few that pass it.
+        if (j > 1 && pMidi[j - 2] === midi && crossable(band, lines, i, j)) {
+          const crossed = ringRow(band, i - 2) + j - 2
+          if (cost[crossed]! < m) {
+            m = cost[crossed]!
+            mTrace = pairing[crossed] ? SWAP_FROM_M : SWAP_FROM_G
+          }
+        }
+      }
+      traceM[trace + j] = mTrace
+      traceG[trace + j] = gTrace
+      leftCost = Math.min(m, g)
+      leftPairing = m < g ? 1 : 0
+      cost[ring + j] = leftCost
+      pairing[ring + j] = leftPairing
+      endM = m
+      endG = g
+    }
+  }
+  return endM <= endG
 }
 
 export function alignNotes(targets: readonly AlignTarget[], played: readonly AlignPlayed[], options: AlignOptions = {}): Alignment {
@@ -307,8 +400,7 @@ export function alignSides(sides: AlignmentSides, timing: Pick<AlignOptions, 'ms
     perMs: timed ? TIME_MAX / (toleranceMs && toleranceMs > 0 ? toleranceMs : msPerBeat) : 0,
   }
   const band = bandFor(sides.tMidi.length, sides.pMidi.length)
-  fillBand(band, lines)
-  return traceBack(band, sides)
+  return traceBack(band, sides, timed ? fillBand(band, lines) : fillUntimed(band, lines))
 }
 
 /** The band around the diagonal for n drill and m played notes, its rings and moves not yet filled. */
@@ -334,15 +426,11 @@ function bandFor(n: number, m: number): Band {
     traceM: new Uint8Array(cells),
     traceG: new Uint8Array(cells),
     ringWidth,
-    costM: new Int32Array(3 * ringWidth),
-    costG: new Int32Array(3 * ringWidth),
-    lastTargetG: new Int32Array(3 * ringWidth),
-    lastPlayedG: new Int32Array(3 * ringWidth),
   }
 }
 
-/** Follows the moves back from the cheaper layer at (drill, played), pairing notes and collecting extras. */
-function traceBack(band: Band, sides: AlignmentSides): Alignment {
+/** Follows the moves back from (drill, played), starting in the given layer, pairing notes and collecting extras. */
+function traceBack(band: Band, sides: AlignmentSides, startInM: boolean): Alignment {
   const { lo, rowStart, traceM, traceG } = band
   const n = sides.targetOrder.length
   const alignment: Alignment = {
@@ -353,8 +441,7 @@ function traceBack(band: Band, sides: AlignmentSides): Alignment {
   }
   let i = n
   let j = sides.playedOrder.length
-  const last = ringRow(band, i) + j
-  let inM = band.costM[last]! <= band.costG[last]!
+  let inM = startInM
   while (i > 0 || j > 0) {
     const here = rowStart[i]! - lo[i]! + j
     if (inM) {
