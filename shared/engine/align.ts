@@ -182,7 +182,9 @@ function crossable(band: Band, lines: Lines, i: number, j: number): boolean {
  * not). Kept apart from the other steps, with its helpers at module level, so that no closure captures
  * the arrays and the engine keeps them in registers over the hot loop. Every cell of the band is
  * written once (unreachable ones with INF), and the cell to the left is carried in locals rather than
- * read back. Returns whether the traceback starts in the pairing layer.
+ * read back: as the int32 it is stored as (`| 0`), since a tolerance far below a microsecond makes
+ * time costs so large that sums wrap, and what is compared must be what would be read back. Returns
+ * whether the traceback starts in the pairing layer.
  */
 function fillBand(band: Band, lines: Lines): boolean {
   const { lo, hi, rowStart, traceM, traceG, ringWidth } = band
@@ -227,7 +229,7 @@ function fillBand(band: Band, lines: Lines): boolean {
         const fromG = costG[up]!
         const cost = Math.min(fromM, fromG) + GAP
         if (cost < g) {
-          g = cost
+          g = cost | 0
           const m = fromM < fromG
           gTrace = m ? UP_FROM_M : UP_FROM_G
           gTarget = m ? i - 2 : lastTargetG[up]!
@@ -240,7 +242,7 @@ function fillBand(band: Band, lines: Lines): boolean {
         if (j > first) {
           const cost = Math.min(leftM, leftG) + GAP
           if (cost < g) {
-            g = cost
+            g = cost | 0
             const fromM = leftM < leftG
             gTrace = fromM ? LEFT_FROM_M : LEFT_FROM_G
             gTarget = fromM ? i - 1 : leftTarget
@@ -263,7 +265,7 @@ function fillBand(band: Band, lines: Lines): boolean {
           }
           const fromM = costM[diagonal]! + pitch + timeM
           const fromG = costG[diagonal]! + pitch + timeG
-          m = Math.min(fromM, fromG)
+          m = Math.min(fromM, fromG) | 0
           mTrace = fromM < fromG ? DIAGONAL_FROM_M : DIAGONAL_FROM_G
         }
         // Most cells fail the first test, so the rest is asked only of the few that pass it.
