@@ -115,11 +115,11 @@ export interface AlignmentSides {
   grouped: Uint8Array
 }
 
-/** The sides with one alignment's timing. */
-interface Lines extends AlignmentSides {
-  /** Each drill note's written time in ms at the played tempo (all 0 without one). */
+/** What a pass that compares intervals needs besides the sides. */
+interface Tempo {
+  /** Each drill note's written time in ms at the played tempo, in canonical order. */
   tMs: Float64Array
-  /** Cost units per ms off; 0 when intervals are not compared. */
+  /** Cost units per ms off. */
   perMs: number
 }
 
@@ -158,9 +158,9 @@ function timeCost(offMs: number, perMs: number): number {
 }
 
 /** Whether drill notes i-2, i-1 (1-based i) may be matched crosswise with played notes j-2, j-1. */
-function mayCross(lines: Lines, i: number, j: number): boolean {
-  return lines.grouped[j - 1] === 1
-    || (lines.tBeat[i - 1] === lines.tBeat[i - 2] && lines.pOn[j - 1]! - lines.pOn[j - 2]! <= HANDS_TOGETHER_MS)
+function mayCross(sides: AlignmentSides, i: number, j: number): boolean {
+  return sides.grouped[j - 1] === 1
+    || (sides.tBeat[i - 1] === sides.tBeat[i - 2] && sides.pOn[j - 1]! - sides.pOn[j - 2]! <= HANDS_TOGETHER_MS)
 }
 
 /**
@@ -168,13 +168,13 @@ function mayCross(lines: Lines, i: number, j: number): boolean {
  * j − 2, j − 1 (1-based): each pitch answers the other's, the two differ, mayCross allows it, and the
  * cell two rows up lies in the band.
  */
-function crossable(band: Band, lines: Lines, i: number, j: number): boolean {
+function crossable(band: Band, sides: AlignmentSides, i: number, j: number): boolean {
   if (i < 2 || j < 2) return false
-  const { tMidi, pMidi } = lines
+  const { tMidi, pMidi } = sides
   const midi = tMidi[i - 1]!
   const before = tMidi[i - 2]!
   return before !== -1 && midi === pMidi[j - 2] && before === pMidi[j - 1] && midi !== before
-    && mayCross(lines, i, j) && j - 2 >= band.lo[i - 2]! && j - 2 <= band.hi[i - 2]!
+    && mayCross(sides, i, j) && j - 2 >= band.lo[i - 2]! && j - 2 <= band.hi[i - 2]!
 }
 
 /**
@@ -186,9 +186,10 @@ function crossable(band: Band, lines: Lines, i: number, j: number): boolean {
  * time costs so large that sums wrap, and what is compared must be what would be read back. Returns
  * whether the traceback starts in the pairing layer.
  */
-function fillBand(band: Band, lines: Lines): boolean {
+function fillBand(band: Band, sides: AlignmentSides, tempo: Tempo): boolean {
   const { lo, hi, rowStart, traceM, traceG, ringWidth } = band
-  const { tMidi, pMidi, pOn, tMs, perMs } = lines
+  const { tMidi, pMidi, pOn } = sides
+  const { tMs, perMs } = tempo
   const costM = new Int32Array(3 * ringWidth)
   const costG = new Int32Array(3 * ringWidth)
   const lastTargetG = new Int32Array(3 * ringWidth)
@@ -269,7 +270,7 @@ function fillBand(band: Band, lines: Lines): boolean {
           mTrace = fromM < fromG ? DIAGONAL_FROM_M : DIAGONAL_FROM_G
         }
         // Most cells fail the first test, so the rest is asked only of the few that pass it.
-        if (j > 1 && pMidi[j - 2] === midi && crossable(band, lines, i, j)) {
+        if (j > 1 && pMidi[j - 2] === midi && crossable(band, sides, i, j)) {
           const crossed = ringRow(band, i - 2) + j - 2
           const fromM = costM[crossed]!
           const fromG = costG[crossed]!
@@ -303,9 +304,9 @@ function fillBand(band: Band, lines: Lines): boolean {
  * layer by that comparison), so one cost and one flag per cell give the same moves as fillBand, with
  * less to carry and compare per cell. Returns whether the traceback starts in the pairing layer.
  */
-function fillUntimed(band: Band, lines: Lines): boolean {
+function fillUntimed(band: Band, sides: AlignmentSides): boolean {
   const { lo, hi, rowStart, traceM, traceG, ringWidth } = band
-  const { tMidi, pMidi } = lines
+  const { tMidi, pMidi } = sides
   const cost = new Int32Array(3 * ringWidth)
   const pairing = new Uint8Array(3 * ringWidth)
   const top = ringRow(band, 0)
@@ -350,7 +351,7 @@ function fillUntimed(band: Band, lines: Lines): boolean {
           mTrace = pairing[diagonal] ? DIAGONAL_FROM_M : DIAGONAL_FROM_G
         }
         // Most cells fail the first test, so the rest is asked only of the few that pass it.
-        if (j > 1 && pMidi[j - 2] === midi && crossable(band, lines, i, j)) {
+        if (j > 1 && pMidi[j - 2] === midi && crossable(band, sides, i, j)) {
           const crossed = ringRow(band, i - 2) + j - 2
           if (cost[crossed]! < m) {
             m = cost[crossed]!
@@ -392,17 +393,12 @@ export function alignmentSides(targets: readonly AlignTarget[], played: readonly
 /** The alignment of prepared sides; intervals are compared when the timing gives a tempo. */
 export function alignSides(sides: AlignmentSides, timing: Pick<AlignOptions, 'msPerBeat' | 'toleranceMs'> = {}): Alignment {
   const { msPerBeat, toleranceMs } = timing
-  const timed = msPerBeat !== undefined && msPerBeat > 0
-  // Each drill note's written time in ms at the played tempo, and cost units per ms off.
-  const tMs = new Float64Array(sides.tBeat.length)
-  for (let k = 0; k < tMs.length; k++) tMs[k] = sides.tBeat[k]! * (timed ? msPerBeat : 0)
-  const lines: Lines = {
-    ...sides,
-    tMs,
-    perMs: timed ? TIME_MAX / (toleranceMs && toleranceMs > 0 ? toleranceMs : msPerBeat) : 0,
-  }
   const band = bandFor(sides.tMidi.length, sides.pMidi.length)
-  return traceBack(band, sides, timed ? fillBand(band, lines) : fillUntimed(band, lines))
+  if (msPerBeat === undefined || !(msPerBeat > 0)) return traceBack(band, sides, fillUntimed(band, sides))
+  const tMs = new Float64Array(sides.tBeat.length)
+  for (let k = 0; k < tMs.length; k++) tMs[k] = sides.tBeat[k]! * msPerBeat
+  const perMs = TIME_MAX / (toleranceMs && toleranceMs > 0 ? toleranceMs : msPerBeat)
+  return traceBack(band, sides, fillBand(band, sides, { tMs, perMs }))
 }
 
 /** The band around the diagonal for n drill and m played notes, its rings and moves not yet filled. */
