@@ -82,6 +82,20 @@ describe('alignNotes', () => {
     expect(alignNotes([], []).counts).toEqual({ correct: 0, wrong: 0, extra: 0, missed: 0 })
   })
 
+  it('aligns without a tempo exactly as the two-layer pass does when intervals cost nothing', () => {
+    // An infinite tolerance prices every interval at 0, so the timed programme sees pitch and order
+    // only; the untimed pass keeps one cost per cell instead of two and must choose the same path.
+    const note = fc.record({ midi: fc.integer({ min: 58, max: 62 }), step: fc.constantFrom(0, 0.5, 1) })
+    const hit = fc.record({ midi: fc.integer({ min: 58, max: 62 }), gapMs: fc.integer({ min: 0, max: 700 }) })
+    fc.assert(fc.property(fc.array(note, { maxLength: 60 }), fc.array(hit, { maxLength: 70 }), (ns, hs) => {
+      let beat = 0
+      const targets = ns.map(n => ({ midi: n.midi, beat: (beat += n.step) }))
+      let onMs = 0
+      const played = hs.map(h => ({ midi: h.midi, onMs: (onMs += h.gapMs) }))
+      expect(alignNotes(targets, played)).toEqual(alignNotes(targets, played, { msPerBeat: 500, toleranceMs: Infinity }))
+    }))
+  })
+
   it('accounts for every note on both sides', () => {
     const midis = fc.array(fc.integer({ min: 55, max: 70 }), { maxLength: 80 })
     fc.assert(fc.property(midis, midis, (t, p) => {

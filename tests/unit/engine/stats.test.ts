@@ -28,6 +28,22 @@ describe('statistics against simple-statistics', () => {
     }))
   })
 
+  it('finds the median by selection as a full sort would, on ordered, reversed, repeated and peaked lists', () => {
+    const sortedMedian = (xs: number[]): number => {
+      const s = [...xs].sort((a, b) => a - b)
+      return s.length % 2 ? s[s.length >> 1]! : (s[(s.length >> 1) - 1]! + s[s.length >> 1]!) / 2
+    }
+    for (const n of [1, 2, 3, 64, 65, 1000, 1001]) {
+      const lists = [
+        Array.from({ length: n }, (_, k) => k),
+        Array.from({ length: n }, (_, k) => n - k),
+        Array.from({ length: n }, (_, k) => k % 3),
+        Array.from({ length: n }, (_, k) => Math.min(k, n - k)),
+      ]
+      for (const xs of lists) expect(median(xs)).toBe(sortedMedian(xs))
+    }
+  })
+
   it('returns null where there is nothing to compute', () => {
     expect(mean([])).toBeNull()
     expect(standardDeviation([])).toBeNull()
