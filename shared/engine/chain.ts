@@ -88,17 +88,21 @@ function viterbi(lattice: Lattice, layout: StateLayout, back: Int8Array): Float6
   return prev
 }
 
-/** The path back from the cheapest state of the last item. */
+/**
+ * The path back from the cheapest state of the last item. The result is made before the loop, so that
+ * code the engine compiles while in the loop has seen everything that runs after it.
+ */
 function tracePath(layout: StateLayout, back: Int8Array, last: Float64Array): ChainPath {
   const { sizes, offsets } = layout
   const n = sizes.length
   const sc = sizes[n - 1]!
   const end = argmin(last, sizes[n - 2]! * sc)
-  const path = new Array<number>(n)
+  const result: ChainPath = { path: new Array<number>(n), cost: last[end]! }
+  const { path } = result
   path[n - 1] = end % sc
   path[n - 2] = Math.floor(end / sc)
   for (let i = n - 1; i >= 2; i--) path[i - 2] = back[offsets[i]! + path[i - 1]! * sizes[i]! + path[i]!]!
-  return { path, cost: last[end]! }
+  return result
 }
 
 /** The total cost of one path through the lattice. */
@@ -294,11 +298,12 @@ function backwardMarginals({ own, triples }: LinearTables, alpha: Float64Array, 
   const marginals: Float64Array[] = new Array(n)
   // What follows item i − 1 in state b through each option c of item i, whatever came before b.
   const after = new Float64Array(layout.maxSize)
-  for (let i = n - 1; i >= 1; i--) {
+  for (let i = n - 1; i >= 0; i--) {
+    marginals[i] = marginal(alpha, offsets[i]!, offsets[i + 1]! - offsets[i]!, sizes[i]!, beta)
+    if (i === 0) break
     const sb = sizes[i - 1]!
     const sc = sizes[i]!
     const here = offsets[i]!
-    marginals[i] = marginal(alpha, here, sb * sc, sc, beta)
     const sa = i >= 2 ? sizes[i - 2]! : 1
     const weights = triples[i] ?? null
     let largest = 0
@@ -324,7 +329,6 @@ function backwardMarginals({ own, triples }: LinearTables, alpha: Float64Array, 
     beta = betaBefore
     betaBefore = swap
   }
-  marginals[0] = marginal(alpha, 0, sizes[0]!, sizes[0]!, beta)
   return marginals
 }
 
