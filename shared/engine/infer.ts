@@ -159,12 +159,20 @@ function accentsOf(notes: PerformedNote[]): number[] {
   return v.map(x => (sd < 1 ? 0.5 : logistic(((x - mean) / sd - 0.5) / 0.25)))
 }
 
-function moveLogLikelihood(move: Move, t: Timing): number {
-  let ll = 0
-  if (t.detached !== null) ll += softLog(t.detached, P_DETACHED[move])
-  if (t.late !== null) ll += softLog(t.late, P_LATE[move])
-  if (t.connected !== null && move === 'sameFinger') ll += Math.log(t.connected * P_CONNECTED_SAME_FINGER + (1 - t.connected))
-  return ll
+/** The move probabilities in MOVES order, so that an item's moves are costed by index. */
+const DETACHED_BY_MOVE = MOVES.map(move => P_DETACHED[move])
+const LATE_BY_MOVE = MOVES.map(move => P_LATE[move])
+const SAME_FINGER = MOVES.indexOf('sameFinger')
+
+/** Each move's timing evidence for one item, in cost units (TEMPERATURE · log-likelihood), in MOVES order. */
+function moveCosts(t: Timing, out: Float64Array): void {
+  for (let m = 0; m < MOVES.length; m++) {
+    let ll = 0
+    if (t.detached !== null) ll += softLog(t.detached, DETACHED_BY_MOVE[m]!)
+    if (t.late !== null) ll += softLog(t.late, LATE_BY_MOVE[m]!)
+    if (t.connected !== null && m === SAME_FINGER) ll += Math.log(t.connected * P_CONNECTED_SAME_FINGER + (1 - t.connected))
+    out[m] = TEMPERATURE * ll
+  }
 }
 
 /**
@@ -211,7 +219,7 @@ function withEvidence(base: LineLattice, table: SpanRow[][], items: Item[], note
   const moveCost = new Float64Array(MOVES.length)
   for (let i = 1; i < items.length; i++) {
     thumbEvidence(base, items[i]!, i, noteKeys, accents, velocity)
-    for (let m = 0; m < MOVES.length; m++) moveCost[m] = TEMPERATURE * moveLogLikelihood(MOVES[m]!, timings[i]!)
+    moveCosts(timings[i]!, moveCost)
     const costs = buffer.subarray(offset, offset + base.sizes[i - 1]! * base.sizes[i]!)
     offset += costs.length
     pairCosts(base, table, i, velocity, moveCost, costs)
