@@ -35,6 +35,11 @@ function resumeOnFirstGesture(Tone: Tone): void {
   events.forEach(e => window.addEventListener(e, resume, true))
 }
 
+/** The native context under tone, once loadTone() has made it. */
+export function audioContext(): AudioContext | null {
+  return rawContext
+}
+
 /** Whether audio is allowed to sound yet (false until the first user gesture). */
 export function audioRunning(): boolean {
   return rawContext?.state === 'running'
