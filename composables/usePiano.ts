@@ -54,11 +54,10 @@ function forget(midi: number, voice: Voice): void {
 }
 
 function releaseKey(midi: number): void {
-  const context = audioContext()
   const sounding = voices.get(midi)
-  if (!context || !sounding) return
+  if (!sounding) return
   voices.delete(midi)
-  const now = context.currentTime
+  const now = audioContext().currentTime
   for (const { source, gain } of sounding) {
     gain.gain.setTargetAtTime(0, now, RELEASE_TIME_CONSTANT_S)
     source.stop(now + RELEASE_S)
@@ -71,8 +70,8 @@ export function usePiano() {
   const baseUrl = `${useRuntimeConfig().app.baseURL}samples/`
 
   function load(): Promise<void> {
-    loading ??= loadTone().then(async () => {
-      const context = audioContext()!
+    loading ??= (async () => {
+      const context = audioContext()
       const decoded = await Promise.all([...sampleFiles()].map(async ([midi, file]) => {
         const res = await fetch(baseUrl + file)
         if (!res.ok) throw new Error(`Piano sample ${file}: HTTP ${res.status}`)
@@ -80,14 +79,14 @@ export function usePiano() {
       }))
       samples = new Map(decoded)
       loaded.value = true
-    })
+    })()
     return loading
   }
 
   function noteOn(midi: number, velocity = 80): void {
-    const context = audioContext()
     // A note that arrives before the samples are ready is dropped: sounding it late would be worse.
-    if (!enabled.value || !loaded.value || !samples || !context || !audioRunning()) return
+    if (!enabled.value || !loaded.value || !samples || !audioRunning()) return
+    const context = audioContext()
     // A key struck again is held by its own key now, not by the pedal.
     sustained.delete(midi)
     const sample = nearestSample(midi)

@@ -50,7 +50,6 @@ const fake = vi.hoisted(() => {
   return { context, voices, requested, samplesServed, serveSamples: () => open() }
 })
 
-mockNuxtImport('loadTone', () => () => Promise.resolve({}))
 mockNuxtImport('audioContext', () => () => fake.context)
 mockNuxtImport('audioRunning', () => () => true)
 
