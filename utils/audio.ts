@@ -1,6 +1,5 @@
-// One low-latency audio context for the piano and the metronome, made on the client only. The piano
-// plays on the native context itself; tone, which only the metronome needs, is imported when the
-// metronome first starts, so the practice page does not load it before then.
+// One low-latency audio context for the piano and the metronome, loaded on the client only.
+// tone is imported dynamically so that server rendering never touches Web Audio.
 import type * as ToneModule from 'tone'
 
 export type Tone = typeof ToneModule
@@ -9,37 +8,28 @@ let loading: Promise<Tone> | null = null
 let rawContext: AudioContext | null = null
 
 /**
- * The native context, made on first use. We make it ourselves (rather than letting tone wrap one)
- * because only the native object offers `getOutputTimestamp()`, which `audioTimeToPerformanceMs` needs.
- */
-export function audioContext(): AudioContext {
-  if (!import.meta.client) throw new Error('Audio is only available in the browser')
-  if (!rawContext) {
-    rawContext = new AudioContext({ latencyHint: 'interactive' })
-    resumeOnFirstGesture(rawContext)
-  }
-  return rawContext
-}
-
-/**
- * Loads tone once and gives it our native context. `lookAhead: 0` makes `Tone.now()` the current
- * audio time, so a sound is not delayed by tone's default 100 ms.
+ * Loads tone once and gives it our own native AudioContext. We create the native context
+ * ourselves (rather than letting tone wrap one) because only the native object offers
+ * `getOutputTimestamp()`, which `audioTimeToPerformanceMs` needs. `lookAhead: 0` makes
+ * `Tone.now()` the current audio time, so a live note is not delayed by tone's default 100 ms.
  */
 export function loadTone(): Promise<Tone> {
   if (!import.meta.client) return Promise.reject(new Error('Audio is only available in the browser'))
   loading ??= import('tone').then((Tone) => {
-    Tone.setContext(new Tone.Context({ context: audioContext(), lookAhead: 0 }))
+    rawContext = new AudioContext({ latencyHint: 'interactive' })
+    Tone.setContext(new Tone.Context({ context: rawContext, lookAhead: 0 }))
+    resumeOnFirstGesture(Tone)
     return Tone
   })
   return loading
 }
 
 /** Browsers keep audio suspended until the user touches the page; MIDI notes do not count. */
-function resumeOnFirstGesture(context: AudioContext): void {
+function resumeOnFirstGesture(Tone: Tone): void {
   const events = ['pointerdown', 'keydown', 'touchend'] as const
   const resume = (): void => {
-    void context.resume().then(() => {
-      if (context.state === 'running') events.forEach(e => window.removeEventListener(e, resume, true))
+    void Tone.start().then(() => {
+      if (rawContext?.state === 'running') events.forEach(e => window.removeEventListener(e, resume, true))
     })
   }
   events.forEach(e => window.addEventListener(e, resume, true))
