@@ -8,6 +8,13 @@ let loading: Promise<Tone> | null = null
 let rawContext: AudioContext | null = null
 
 /**
+ * How often tone's own clock wakes the page. We schedule nothing on tone's transport, so the clock
+ * only tidies up finished notes, and tone's default for `lookAhead: 0` (every 10 ms) would put a
+ * hundred small tasks a second in the way of incoming notes.
+ */
+const UPDATE_INTERVAL_S = 0.1
+
+/**
  * Loads tone once and gives it our own native AudioContext. We create the native context
  * ourselves (rather than letting tone wrap one) because only the native object offers
  * `getOutputTimestamp()`, which `audioTimeToPerformanceMs` needs. `lookAhead: 0` makes
@@ -17,7 +24,10 @@ export function loadTone(): Promise<Tone> {
   if (!import.meta.client) return Promise.reject(new Error('Audio is only available in the browser'))
   loading ??= import('tone').then((Tone) => {
     rawContext = new AudioContext({ latencyHint: 'interactive' })
-    Tone.setContext(new Tone.Context({ context: rawContext, lookAhead: 0 }))
+    // Importing tone makes a context of its own, with a second audio stream and clock; we use ours.
+    const unused = Tone.getContext()
+    Tone.setContext(new Tone.Context({ context: rawContext, lookAhead: 0, updateInterval: UPDATE_INTERVAL_S }))
+    unused.dispose()
     resumeOnFirstGesture(Tone)
     return Tone
   })
