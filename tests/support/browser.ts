@@ -41,9 +41,12 @@ export async function signInAs(page: Page, email: string, password = DEMO_PASSWO
   await page.getByRole('button', { name: 'Sign in' }).click()
 }
 
-/** The demo student, signed in, in a browser whose Web MIDI is the fake keyboard of fake-midi.ts. */
-export async function openStudentWithFakeMidi(): Promise<BrowserSession> {
-  const session = await openBrowser({ initScript: fakeMidiScript })
+/**
+ * The demo student, signed in, in a browser whose Web MIDI is the fake keyboard of fake-midi.ts;
+ * `initScripts` run before page scripts too (such as audio-tap.ts).
+ */
+export async function openStudentWithFakeMidi(initScripts: string[] = []): Promise<BrowserSession> {
+  const session = await openBrowser({ initScript: [fakeMidiScript, ...initScripts].join(';\n') })
   await signInAs(session.page, 'student@evenhand.test')
   await session.page.waitForURL(/\/student$/)
   return session
