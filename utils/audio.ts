@@ -1,8 +1,14 @@
 // One low-latency audio context for the piano and the metronome, loaded on the client only.
 // tone is imported dynamically so that server rendering never touches Web Audio.
-import type * as ToneModule from 'tone'
+import type { Context, Gain, Sampler, Synth } from 'tone'
 
-export type Tone = typeof ToneModule
+/** The parts of tone we play with. */
+export interface Tone {
+  Gain: typeof Gain
+  Sampler: typeof Sampler
+  Synth: typeof Synth
+  start: () => Promise<void>
+}
 
 let loading: Promise<Tone> | null = null
 let rawContext: AudioContext | null = null
@@ -22,12 +28,13 @@ const UPDATE_INTERVAL_S = 0.1
  */
 export function loadTone(): Promise<Tone> {
   if (!import.meta.client) return Promise.reject(new Error('Audio is only available in the browser'))
-  loading ??= import('tone').then((Tone) => {
+  // tone's index module makes a default context the moment it is imported (a second audio stream,
+  // clock and worker beside ours), so its classes and global context come from the files behind it.
+  loading ??= Promise.all([import('tone/build/esm/classes.js'), import('tone/build/esm/core/Global.js')]).then(([classes, global]) => {
     rawContext = new AudioContext({ latencyHint: 'interactive' })
-    // Importing tone makes a context of its own, with a second audio stream and clock; we use ours.
-    const unused = Tone.getContext()
-    Tone.setContext(new Tone.Context({ context: rawContext, lookAhead: 0, updateInterval: UPDATE_INTERVAL_S }))
-    unused.dispose()
+    const context: Context = new classes.Context({ context: rawContext, lookAhead: 0, updateInterval: UPDATE_INTERVAL_S })
+    global.setContext(context)
+    const Tone: Tone = { Gain: classes.Gain, Sampler: classes.Sampler, Synth: classes.Synth, start: global.start }
     resumeOnFirstGesture(Tone)
     return Tone
   })
