@@ -4,6 +4,8 @@
 //   onBeat({ index, isDownbeat, isCountIn, timeMs }) fires as each beat is heard; index 0 is the
 //   first beat after the count-in (count-in beats are negative), timeMs is its performance.now() time.
 //   zeroMs: the performance.now() time (ms) of beat 0, the attempt's time zero.
+//   metronome.beat – the beat last heard (null when stopped), for whatever shows the beat: a
+//   component reading it re-renders on each beat without its parent doing so
 //   metronome.volume (0–1), metronome.muted, metronome.running, metronome.stop()
 // It plays exactly the tempo it is given: it never raises it (safety: the teacher's target is a ceiling).
 import type { Gain, Synth } from 'tone'
@@ -35,6 +37,7 @@ export function useMetronome() {
   const volume = ref(0.7)
   const muted = ref(false)
   const running = ref(false)
+  const beat = shallowRef<MetronomeBeat | null>(null)
 
   let output: Gain | null = null
   let synth: Synth | null = null
@@ -78,14 +81,13 @@ export function useMetronome() {
         const time = beatTime(index)
         const isDownbeat = ((index % beatsPerBar) + beatsPerBar) % beatsPerBar === 0
         synth.triggerAttackRelease(isDownbeat ? ACCENT_HZ : BEAT_HZ, CLICK_S, time, isDownbeat ? 1 : 0.55)
-        if (onBeat) {
-          const timeMs = audioTimeToPerformanceMs(time)
-          const id = setTimeout(() => {
-            pending.delete(id)
-            onBeat({ index, isDownbeat, isCountIn: index < 0, timeMs })
-          }, Math.max(0, timeMs - performance.now()))
-          pending.add(id)
-        }
+        const timeMs = audioTimeToPerformanceMs(time)
+        const id = setTimeout(() => {
+          pending.delete(id)
+          beat.value = { index, isDownbeat, isCountIn: index < 0, timeMs }
+          onBeat?.(beat.value)
+        }, Math.max(0, timeMs - performance.now()))
+        pending.add(id)
         next++
       }
     }
@@ -105,6 +107,7 @@ export function useMetronome() {
     synth?.dispose()
     synth = null
     running.value = false
+    beat.value = null
   }
 
   if (getCurrentScope()) {
@@ -115,5 +118,5 @@ export function useMetronome() {
     })
   }
 
-  return { volume, muted, running: readonly(running), start, stop }
+  return { volume, muted, running: readonly(running), beat: readonly(beat), start, stop }
 }

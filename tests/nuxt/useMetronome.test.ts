@@ -59,7 +59,9 @@ describe('useMetronome', () => {
     expect(beats.filter(b => b.isCountIn)).toHaveLength(6)
     expect(beats.filter(b => b.isDownbeat).map(b => b.index)).toEqual([-6, -3, 0])
     expect(beats.find(b => b.index === 0)!.timeMs).toBeCloseTo(zeroMs, 6)
+    expect(metronome.beat.value).toEqual(beats.at(-1))
     metronome.stop()
+    expect(metronome.beat.value).toBeNull()
   })
 
   it('plays a slow tempo as given, never raised to a floor', async () => {
