@@ -12,7 +12,8 @@
 // - détaché: each key released before the next is pressed;
 // - legato: the next key pressed before the last is released, as in a scale;
 // - a run at 16 notes a second, about the fastest passage-work a pianist plays (from memory);
-// - back to back: a note every 40 ms (25 a second), faster than any player, as a stress case.
+// - back to back: a note every 40 ms (25 a second), faster than any player, as a stress case;
+// and the last two again on a bare page that only marks the key, as a control.
 // Each note is stamped with the moment it was due, not the moment its timer ran: a real message
 // carries the time the browser received it, and it too waits for whatever the page is doing.
 import { Note } from 'tonal'
@@ -40,7 +41,7 @@ function report(heading: string, samples: Sample[]): void {
   const dom = samples.map(s => s.dom).sort((a, b) => a - b)
   const nextFrame = samples.filter(s => s.frames === 1).length / samples.length
   const fmt = (n: number): string => n.toFixed(2).padStart(7)
-  console.log(`practice page, ${heading}, message time stamp → highlight (ms):`)
+  console.log(`${heading}, message time stamp → highlight (ms):`)
   console.log(`  DOM updated      median ${fmt(percentile(dom, 0.5))}   p99 ${fmt(percentile(dom, 0.99))}   max ${fmt(dom.at(-1)!)}`)
   console.log(`  frame painted    median ${fmt(percentile(frame, 0.5))}   p99 ${fmt(percentile(frame, 0.99))}   max ${fmt(frame.at(-1)!)}   (goal: median ≤ 4, p99 ≤ 16.7)`)
   console.log(`  shown in the first frame drawn after the message: ${(nextFrame * 100).toFixed(1)} % of ${samples.length} notes`)
@@ -122,7 +123,7 @@ try {
     ['legato run, about 16 a second', presses(keys, NOTES, 55, 75)],
     ['back to back, 25 a second', presses(keys, NOTES, 32, 50)],
   ]
-  for (const [how, plan] of free) report(`${NOTES} fake MIDI notes, free playing ${how}`, await measure(page, plan))
+  for (const [how, plan] of free) report(`practice page, ${NOTES} fake MIDI notes, free playing ${how}`, await measure(page, plan))
 
   // The scale, legato, after the count-in, so every note also moves the guide and is recorded while
   // the metronome beats.
@@ -133,8 +134,25 @@ try {
     recorded.push(...await measure(page, presses(scale, scale.length, 110, 130)))
     await page.getByTestId('start').filter({ hasText: 'Play again' }).waitFor({ timeout: 15_000 })
   }
-  report(`${recorded.length} fake MIDI notes in ${ATTEMPTS} recorded attempts, legato, about 8 a second`, recorded)
+  report(`practice page, ${recorded.length} fake MIDI notes in ${ATTEMPTS} recorded attempts, legato, about 8 a second`, recorded)
   console.log(`practice page JavaScript: ${pageScripts.files} files, ${(pageScripts.gzipBytes / 1024).toFixed(1)} KiB gzip`)
+
+  // The control: a bare page whose only work is to mark a key pressed, timed the same way. What it
+  // shows is this browser's own frame clock, which no page code can beat.
+  await page.goto('/samples/LICENSE')
+  await page.evaluate(`(async () => {
+    const input = [...(await navigator.requestMIDIAccess()).inputs.values()][0]
+    const style = 'display:inline-block;width:40px;height:120px;margin:2px;background:#eee'
+    document.body.innerHTML = '<style>[data-pressed]{background:#c33!important}</style>'
+      + ${JSON.stringify(keys)}.map(k => '<div style="' + style + '" data-midi="' + k + '"></div>').join('')
+    input.onmidimessage = (e) => {
+      const key = document.querySelector('[data-midi="' + e.data[1] + '"]')
+      if ((e.data[0] & 0xF0) === 0x90 && e.data[2] > 0) key.setAttribute('data-pressed', '')
+      else key.removeAttribute('data-pressed')
+    }
+  })()`)
+  await page.evaluate(MEASURE)
+  for (const [how, plan] of free.slice(2)) report(`control: a bare page marking keys, ${NOTES} notes ${how}`, await measure(page, plan))
 }
 finally {
   await browser.close()
