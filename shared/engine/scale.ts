@@ -24,7 +24,8 @@ export const FORBIDDEN = 1e6
 
 /**
  * A scale-like run: every step goes to the neighbouring pitch class of the line's own set (a scale of
- * five to twelve notes) and the line covers an octave. Its phases are the pitch classes, because a
+ * five to twelve notes), by at most three semitones (the harmonic minor's augmented second), and the
+ * line covers an octave. Its phases are the pitch classes, because a
  * scale fingering is one finger per pitch class (common practice: the printed tables give it so, the
  * same up and down), or null.
  */
@@ -37,7 +38,7 @@ export function scalePhases(keys: number[]): number[] | null {
     const step = keys[i]! - keys[i - 1]!
     const moved = (phases[i]! - phases[i - 1]! + classes.length) % classes.length
     const neighbour = (step > 0 && moved === 1) || (step < 0 && moved === classes.length - 1)
-    if (!neighbour || Math.abs(step) > 2) return null
+    if (!neighbour || Math.abs(step) > 3) return null
   }
   return phases
 }
@@ -175,12 +176,21 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
 
 /**
  * Scale conventions of the printed tables (common practice), charged per note of the run so that they
- * weigh the same at any length: the thumb stays off black keys, and on the run's first pitch class (a
- * scale drill starts on its keynote) when that key is white, as every printed major scale with a white
- * keynote does in both hands, so that the hands meet on the thumbs in contrary motion. A chromatic run
- * (all twelve classes) has no keynote to meet on; instead every black key takes 3 (common practice,
- * from memory: the usual chromatic fingering, 3 on the black keys and the thumb on the white ones, 2
- * where two white keys meet), which the span rules alone, counting thumb passes, would trade for 4s.
+ * weigh the same at any length:
+ * - the thumb stays off black keys;
+ * - the thumb takes the run's first pitch class (a scale drill starts on its keynote) when that key is
+ *   white, as every printed major and minor scale with a white keynote does in both hands, so that the
+ *   hands meet on the thumbs in contrary motion;
+ * - in a seven-note scale with a white keynote, the thumb's other place is the degree a fourth above the
+ *   keynote in right-hand space (the right hand's fourth degree, the left hand's fifth) when that key is
+ *   white, as in the printed C, G, D, A, E and B majors and their harmonic minors (and the left hand's
+ *   F); the span rules alone would let the left hand cross 4 before the fifth degree in long runs;
+ * - between thumbs the fingers follow one another (1 2 3, 1 2 3 4), never skipping one, which the span
+ *   rules would trade at the harmonic minor's augmented second (4 then 2 in the left hand).
+ * A chromatic run (all twelve classes) has no keynote to meet on; instead every black key takes 3
+ * (common practice, from memory: the usual chromatic fingering, 3 on the black keys and the thumb on
+ * the white ones, 2 where two white keys meet), which the span rules alone, counting thumb passes,
+ * would trade for 4s.
  */
 function addConventions(windows: Float64Array[], phases: number[], classes: number[]): void {
   const m = classes.length
@@ -188,16 +198,20 @@ function addConventions(windows: Float64Array[], phases: number[], classes: numb
   const notesOf = classes.map(() => 0)
   for (const phase of phases) notesOf[phase]!++
   const keynote = phases[0]!
+  const fourth = m === 7 && !isBlackKey(classes[keynote]!) ? classes.indexOf((classes[keynote]! + 5) % 12) : -1
   classes.forEach((c, phase) => {
     const black = isBlackKey(c)
     const fromWhite = !isBlackKey(classes[(phase + m - 1) % m]!)
     const window = windows[phase]!
     for (let j = 0; j < 125; j++) {
+      const below = Math.floor(j / 25) + 1
       const finger = Math.floor(j / 5) % 5 + 1
       const thumb = finger === 1
       let points = 0
+      if (!chromatic && !thumb && below !== finger - 1) points += CONVENTION_POINTS
       if (thumb && black) points += CONVENTION_POINTS
       if (chromatic ? black && finger !== 3 : !thumb && phase === keynote && !black) points += CONVENTION_POINTS
+      if (!thumb && phase === fourth && !black) points += CONVENTION_POINTS
       if (thumb && fromWhite) points += WHITE_PASS_POINTS
       window[j] = window[j]! + points * notesOf[phase]!
     }
