@@ -25,13 +25,19 @@ export const FORBIDDEN = 1e6
 /**
  * A scale-like run: every step goes to the neighbouring pitch class of the line's own set (a scale of
  * five to twelve notes), by at most three semitones (the harmonic minor's augmented second), and the
- * line covers an octave. Its phases are the pitch classes, because a
- * scale fingering is one finger per pitch class (common practice: the printed tables give it so, the
- * same up and down), or null.
+ * line covers an octave. Its phases are the pitch classes, because a scale fingering is one finger per
+ * pitch class (common practice: the printed tables give it so, the same up and down). A seven-step
+ * scale whose degrees differ up and down (the melodic minor) has a phase per degree instead (degreePhases).
+ * Otherwise null.
  */
 export function scalePhases(keys: number[]): number[] | null {
+  if (Math.max(...keys) - Math.min(...keys) < 12) return null
+  return classPhases(keys) ?? degreePhases(keys)
+}
+
+function classPhases(keys: number[]): number[] | null {
   const classes = pitchClasses(keys)
-  if (classes.length < 5 || Math.max(...keys) - Math.min(...keys) < 12) return null
+  if (classes.length < 5) return null
   const rank = new Map(classes.map((c, i) => [c, i]))
   const phases = keys.map(k => rank.get(pitchClass(k))!)
   for (let i = 1; i < keys.length; i++) {
@@ -41,6 +47,34 @@ export function scalePhases(keys: number[]): number[] | null {
     if (!neighbour || Math.abs(step) > 3) return null
   }
   return phases
+}
+
+const DEGREES = 7
+
+/**
+ * Phases by scale degree, for a line of single steps (one to three semitones) where every octave takes
+ * seven of them and each degree keeps its key to within a semitone (F♯ going up, F coming down): one
+ * finger per degree (common practice: the printed melodic minors finger each degree alike both ways).
+ * The first note is degree 0.
+ */
+function degreePhases(keys: number[]): number[] | null {
+  const degrees = [0]
+  for (let i = 1; i < keys.length; i++) {
+    const step = keys[i]! - keys[i - 1]!
+    if (step === 0 || Math.abs(step) > 3) return null
+    degrees.push(degrees[i - 1]! + Math.sign(step))
+  }
+  // Each degree's key, an octave folded per seven degrees, must stay within a semitone of its first.
+  const first = new Map<number, number>()
+  for (let i = 0; i < keys.length; i++) {
+    const phase = ((degrees[i]! % DEGREES) + DEGREES) % DEGREES
+    const folded = keys[i]! - 12 * Math.floor(degrees[i]! / DEGREES)
+    const seen = first.get(phase)
+    if (seen === undefined) first.set(phase, folded)
+    else if (Math.abs(folded - seen) > 1) return null
+  }
+  if (first.size < DEGREES) return null
+  return degrees.map(d => ((d % DEGREES) + DEGREES) % DEGREES)
 }
 
 const pitchClass = (k: number): number => ((k % 12) + 12) % 12
@@ -95,11 +129,10 @@ type Cost = (finger: (i: number) => Finger) => number
  * exact over all 5^m patterns at a cost of about 25 · m · 125 steps after one pass over the line.
  */
 export function scaleFingering(keys: number[], phases: number[], model: CostModel): ScaleFingering {
-  const classes = pitchClasses(keys)
-  const m = classes.length
+  const m = Math.max(...phases) + 1
   const free = freeEdges(keys)
-  // windows[c][(a · 5 + b) · 5 + d]: costs that depend on the fingers a, b, d of classes c − 1, c, c + 1.
-  const windows = classes.map(() => new Float64Array(125))
+  // windows[c][(a · 5 + b) · 5 + d]: costs that depend on the fingers a, b, d of phases c − 1, c, c + 1.
+  const windows = Array.from({ length: m }, () => new Float64Array(125))
   const slot = (centre: number, phase: number): number => (phase - centre + 1 + m) % m
   const fit = (notes: number[]): number => {
     for (const i of notes) {
@@ -139,9 +172,9 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
   // A free edge's terms go together, so that its finger is chosen once for all of them. Terms repeat
   // with every octave and every turn of the run: a term (or an edge's group) is fixed by its notes'
   // classes and the steps between them, so each distinct one is added once, times its repetitions.
-  // A number per shape: each note's class (below 12) and step from the one before (−2 … 2) in base 80, then the count.
+  // A number per shape: each note's phase (below 12) and step from the one before (−3 … 3) in base 84, then the count.
   const shapeOf = (notes: number[]): number =>
-    notes.reduce((code, i, j) => code * 80 + phases[i]! * 5 + (j === 0 ? 0 : keys[i]! - keys[notes[j - 1]!]! + 2), 0) * 8 + notes.length
+    notes.reduce((code, i, j) => code * 84 + phases[i]! * 7 + (j === 0 ? 0 : keys[i]! - keys[notes[j - 1]!]! + 3), 0) * 8 + notes.length
   const repeated = new Map<number, { notes: number[], cost: Cost, count: number }>()
   const count = (shape: number, notes: number[], cost: Cost): void => {
     const seen = repeated.get(shape)
@@ -168,7 +201,7 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
     count(shape, notes, finger => group.costs.reduce((sum, cost) => sum + cost(finger), 0))
   }
   for (const { notes, cost, count } of repeated.values()) addTerm(notes, finger => count * cost(finger))
-  addConventions(windows, phases, classes)
+  addConventions(windows, keys, phases)
   const pattern = cheapestCycle(windows)
   const fingerAt = (i: number): Finger => pattern[phases[i]!]!
   return { allowed: (i, f) => allowedFinger(keys, free, fingerAt, i, f) }
@@ -192,30 +225,42 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
  * the white ones, 2 where two white keys meet), which the span rules alone, counting thumb passes,
  * would trade for 4s.
  */
-function addConventions(windows: Float64Array[], phases: number[], classes: number[]): void {
-  const m = classes.length
+function addConventions(windows: Float64Array[], keys: number[], phases: number[]): void {
+  const m = windows.length
   const chromatic = m === 12
-  const notesOf = classes.map(() => 0)
-  for (const phase of phases) notesOf[phase]!++
+  // Per phase, how many of its notes fall on white keys and on black ones: a melodic minor's degree
+  // has both (F♯ going up, F coming down), and a convention about a key's colour counts its notes.
+  const white = new Array<number>(m).fill(0)
+  const black = new Array<number>(m).fill(0)
+  keys.forEach((k, i) => (isBlackKey(pitchClass(k)) ? black : white)[phases[i]!]!++)
   const keynote = phases[0]!
-  const fourth = m === 7 && !isBlackKey(classes[keynote]!) ? classes.indexOf((classes[keynote]! + 5) % 12) : -1
-  classes.forEach((c, phase) => {
-    const black = isBlackKey(c)
-    const fromWhite = !isBlackKey(classes[(phase + m - 1) % m]!)
+  const keynoteClass = pitchClass(keys[0]!)
+  const fourthClass = (keynoteClass + 5) % 12
+  const fourth = m === 7 && !isBlackKey(keynoteClass) && !isBlackKey(fourthClass)
+    ? phases[keys.findIndex(k => pitchClass(k) === fourthClass)] ?? -1
+    : -1
+  for (let phase = 0; phase < m; phase++) {
+    const notes = white[phase]! + black[phase]!
+    const below = (phase + m - 1) % m
+    const fromWhite = white[below]! / (white[below]! + black[below]!)
     const window = windows[phase]!
     for (let j = 0; j < 125; j++) {
-      const below = Math.floor(j / 25) + 1
+      const fingerBelow = Math.floor(j / 25) + 1
       const finger = Math.floor(j / 5) % 5 + 1
       const thumb = finger === 1
       let points = 0
-      if (!chromatic && !thumb && below !== finger - 1) points += CONVENTION_POINTS
-      if (thumb && black) points += CONVENTION_POINTS
-      if (chromatic ? black && finger !== 3 : !thumb && phase === keynote && !black) points += CONVENTION_POINTS
-      if (!thumb && phase === fourth && !black) points += CONVENTION_POINTS
-      if (thumb && fromWhite) points += WHITE_PASS_POINTS
-      window[j] = window[j]! + points * notesOf[phase]!
+      if (!chromatic && !thumb && fingerBelow !== finger - 1) points += CONVENTION_POINTS * notes
+      if (thumb) points += CONVENTION_POINTS * black[phase]!
+      if (chromatic) {
+        if (finger !== 3) points += CONVENTION_POINTS * black[phase]!
+      }
+      else if (!thumb && (phase === keynote || phase === fourth)) {
+        points += CONVENTION_POINTS * white[phase]!
+      }
+      if (thumb) points += WHITE_PASS_POINTS * fromWhite * notes
+      window[j] = window[j]! + points
     }
-  })
+  }
 }
 
 /** The cheapest assignment of fingers around the circle of classes, window c costing fingers of c − 1, c, c + 1. */

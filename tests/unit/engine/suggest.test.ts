@@ -3,7 +3,7 @@ import { scoreFingering } from '../../../shared/engine/ergonomics'
 import { scalePhases } from '../../../shared/engine/scale'
 import { sequencePeriod, suggestFingering } from '../../../shared/engine/suggest'
 import type { Finger } from '../../../shared/engine/types'
-import { HARMONIC_MINOR_SCALE_FINGERINGS, MAJOR_SCALE_FINGERINGS, scaleCase } from './fixtures/scales'
+import { HARMONIC_MINOR_SCALE_FINGERINGS, MAJOR_SCALE_FINGERINGS, MELODIC_MINOR_SCALE_FINGERINGS, scaleCase, scaleNotes } from './fixtures/scales'
 
 /**
  * Cases where the model's fingering differs from the printed one (see fixtures/scales.ts for the
@@ -12,7 +12,7 @@ import { HARMONIC_MINOR_SCALE_FINGERINGS, MAJOR_SCALE_FINGERINGS, scaleCase } fr
  */
 const KNOWN_MISSES = new Set<string>([])
 
-const SCALES = [...MAJOR_SCALE_FINGERINGS, ...HARMONIC_MINOR_SCALE_FINGERINGS]
+const SCALES = [...MAJOR_SCALE_FINGERINGS, ...HARMONIC_MINOR_SCALE_FINGERINGS, ...MELODIC_MINOR_SCALE_FINGERINGS]
 
 const SCALE_CASES = SCALES.flatMap(scale =>
   (['right', 'left'] as const).flatMap(hand => ([1, 2] as const).map(octaves => ({ scale, hand, octaves, name: `${scale.key} ${hand} ${octaves}` }))))
@@ -23,7 +23,7 @@ function printedFingerings(c: (typeof SCALE_CASES)[number]): Finger[][] {
   return [fingers, ...alternatives.map(f => [f, ...fingers.slice(1, -1), f])]
 }
 
-describe('major and harmonic minor scales, up and down, against the printed tables', () => {
+describe('major and minor scales, up and down, against the printed tables', () => {
   it.each(SCALE_CASES.filter(c => !KNOWN_MISSES.has(c.name)))('$name octave(s): the printed fingering', (c) => {
     const { notes } = scaleCase(c.scale, c.hand, c.octaves)
     expect(printedFingerings(c)).toContainEqual(suggestFingering({ hand: c.hand, notes }).fingers)
@@ -34,8 +34,8 @@ describe('major and harmonic minor scales, up and down, against the printed tabl
     expect(printedFingerings(c)).not.toContainEqual(suggestFingering({ hand: c.hand, notes }).fingers)
   })
 
-  it('reproduces 76 of the 76 cases', () => {
-    expect(SCALE_CASES.length - KNOWN_MISSES.size).toBe(76)
+  it('reproduces 104 of the 104 cases', () => {
+    expect(SCALE_CASES.length - KNOWN_MISSES.size).toBe(104)
   })
 })
 
@@ -51,18 +51,16 @@ const LONG_CASES = SCALES.flatMap(scale =>
   (['right', 'left'] as const).flatMap(hand => [3, 4].map(octaves => ({ scale, hand, octaves, name: `${scale.key} ${hand} ${octaves}` }))))
 
 function longCase(c: (typeof LONG_CASES)[number]): { notes: number[], printed: Finger[][] } {
-  const start = c.scale.tonic - (c.hand === 'left' ? 24 : 12)
-  const up = Array.from({ length: 7 * c.octaves + 1 }, (_, i) => start + 12 * Math.floor(i / 7) + c.scale.steps[i % 7]!)
   const two = c.hand === 'left' ? c.scale.left : c.scale.right
   const starts = [two[0]!, ...(c.hand === 'right' ? c.scale.rightStartAlternatives ?? [] : [])]
   const printed = starts.map((first) => {
     const upFingers = [first, ...two.slice(1, 7), ...Array.from({ length: c.octaves - 1 }, () => two.slice(7, 14)).flat(), two[14]!]
     return [...upFingers, ...upFingers.slice(0, -1).reverse()]
   })
-  return { notes: [...up, ...up.slice(0, -1).reverse()], printed }
+  return { notes: scaleNotes(c.scale, c.scale.tonic - (c.hand === 'left' ? 24 : 12), c.octaves), printed }
 }
 
-describe('major and harmonic minor scales over three and four octaves', () => {
+describe('major and minor scales over three and four octaves', () => {
   it.each(LONG_CASES.filter(c => !LONG_KNOWN_MISSES.has(c.name)))('$name octaves: the printed pattern', (c) => {
     const { notes, printed } = longCase(c)
     expect(printed).toContainEqual(suggestFingering({ hand: c.hand, notes }).fingers)
@@ -196,6 +194,8 @@ describe('repeated shapes', () => {
     expect(scalePhases([60, 64, 67, 72, 76, 79, 84])).toBeNull()
     // The harmonic minor's augmented second (F to G♯ in A minor) is a step of the scale too.
     expect(scalePhases([57, 59, 60, 62, 64, 65, 68, 69])).toEqual([5, 6, 0, 1, 2, 3, 4, 5])
+    // The melodic minor (F♯ and G♯ going up, G and F coming down) has a phase per degree instead.
+    expect(scalePhases([57, 59, 60, 62, 64, 66, 68, 69, 67, 65, 64, 62, 60, 59, 57])).toEqual([0, 1, 2, 3, 4, 5, 6, 0, 6, 5, 4, 3, 2, 1, 0])
     // A diminished-seventh arpeggio moves by minor thirds but has only four classes.
     expect(scalePhases([60, 63, 66, 69, 72, 75, 78, 81])).toBeNull()
   })
