@@ -1,6 +1,6 @@
 // One low-latency audio context for the piano and the metronome, loaded on the client only.
 // tone is imported dynamically so that server rendering never touches Web Audio.
-import type { Context, Gain, Sampler, Synth } from 'tone'
+import type { Gain, Sampler, Synth } from 'tone'
 
 /** The parts of tone we play with. */
 export interface Tone {
@@ -29,12 +29,19 @@ const UPDATE_INTERVAL_S = 0.1
 export function loadTone(): Promise<Tone> {
   if (!import.meta.client) return Promise.reject(new Error('Audio is only available in the browser'))
   // tone's index module makes a default context the moment it is imported (a second audio stream,
-  // clock and worker beside ours), so its classes and global context come from the files behind it.
-  loading ??= Promise.all([import('tone/build/esm/classes.js'), import('tone/build/esm/core/Global.js')]).then(([classes, global]) => {
+  // clock and worker beside ours) and pulls in every instrument and effect, so the parts we play with
+  // come from the files behind it. Destination.js gives each new context its loudspeaker.
+  loading ??= Promise.all([
+    import('tone/build/esm/core/Global.js'),
+    import('tone/build/esm/core/context/Context.js'),
+    import('tone/build/esm/core/context/Gain.js'),
+    import('tone/build/esm/instrument/Sampler.js'),
+    import('tone/build/esm/instrument/Synth.js'),
+    import('tone/build/esm/core/context/Destination.js'),
+  ]).then(([global, { Context }, { Gain }, { Sampler }, { Synth }]) => {
     rawContext = new AudioContext({ latencyHint: 'interactive' })
-    const context: Context = new classes.Context({ context: rawContext, lookAhead: 0, updateInterval: UPDATE_INTERVAL_S })
-    global.setContext(context)
-    const Tone: Tone = { Gain: classes.Gain, Sampler: classes.Sampler, Synth: classes.Synth, start: global.start }
+    global.setContext(new Context({ context: rawContext, lookAhead: 0, updateInterval: UPDATE_INTERVAL_S }))
+    const Tone: Tone = { Gain, Sampler, Synth, start: global.start }
     resumeOnFirstGesture(Tone)
     return Tone
   })
