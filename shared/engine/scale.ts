@@ -122,10 +122,10 @@ const FINGERS: readonly Finger[] = [1, 2, 3, 4, 5]
 type Cost = (finger: (i: number) => Finger) => number
 
 /**
- * The pattern, one finger per pitch class, whose line costs least under the model plus the scale
- * conventions. Every cost of the line depends on at most three neighbouring pitch classes (a step joins
- * neighbours, three notes span at most three, and a free edge's best finger depends only on its
- * neighbours' pattern), so the search is a second-order chain around the circle of pitch classes:
+ * The pattern, one finger per phase (pitch class, or degree), whose line costs least under the model
+ * plus the scale conventions. Every cost of the line depends on at most three neighbouring phases (a
+ * step joins neighbours, three notes span at most three, and a free edge's best finger depends only on
+ * its neighbours' pattern), so the search is a second-order chain around the circle of phases:
  * exact over all 5^m patterns at a cost of about 25 · m · 125 steps after one pass over the line.
  */
 export function scaleFingering(keys: number[], phases: number[], model: CostModel): ScaleFingering {
@@ -249,15 +249,14 @@ function addConventions(windows: Float64Array[], keys: number[], phases: number[
       const finger = Math.floor(j / 5) % 5 + 1
       const thumb = finger === 1
       let points = 0
-      if (!chromatic && !thumb && fingerBelow !== finger - 1) points += CONVENTION_POINTS * notes
-      if (thumb) points += CONVENTION_POINTS * black[phase]!
+      if (thumb) points += CONVENTION_POINTS * black[phase]! + WHITE_PASS_POINTS * fromWhite * notes
+      else if (!chromatic && fingerBelow !== finger - 1) points += CONVENTION_POINTS * notes
       if (chromatic) {
         if (finger !== 3) points += CONVENTION_POINTS * black[phase]!
       }
       else if (!thumb && (phase === keynote || phase === fourth)) {
         points += CONVENTION_POINTS * white[phase]!
       }
-      if (thumb) points += WHITE_PASS_POINTS * fromWhite * notes
       window[j] = window[j]! + points
     }
   }
