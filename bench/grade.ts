@@ -1,10 +1,6 @@
 // How long grading takes for long attempts: a seeded, slightly uneven performance of a
 // two-octave C-major scale repeated, with a wrong, a missed and an extra note every 50.
-import { gradeAttempt } from '../shared/engine/grade'
-import { inferFingering } from '../shared/engine/infer'
-import { pairNoteEvents } from '../shared/engine/performance'
-import { nameFromMidi } from '../shared/engine/pitch'
-import type { DrillMusic, DrillNote, Finger, PlayedEvent } from '../shared/engine/types'
+import { gradeAttempt, inferFingering, nameFromMidi, pairNoteEvents, type DrillMusic, type DrillNote, type Finger, type PlayedEvent } from '../shared/engine'
 import { medianMs } from './timing'
 
 // Right-hand C major over two octaves, up and down (standard fingering, common practice).

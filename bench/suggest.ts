@@ -1,6 +1,6 @@
 // Suggestion speed on random-walk lines: notes per second for 1k, 10k and 100k notes (growth should be linear).
 import { fileURLToPath } from 'node:url'
-import { suggestFingering } from '../shared/engine/suggest'
+import { suggestFingering } from '../shared/engine'
 
 /** A reproducible random walk of steps up to a fifth, kept within the piano's range. */
 function randomWalk(length: number, seed: number): number[] {

@@ -1,7 +1,7 @@
 import { createSharedComposable, tryOnScopeDispose, useEventListener } from '@vueuse/core'
 import { z } from 'zod'
 import { AttemptInput } from '#shared/types/attempt'
-import type { GradeResult } from '#shared/engine/types'
+import type { GradeResult } from '#shared/engine'
 
 /**
  * One localStorage key per attempt, written directly rather than through useLocalStorage:

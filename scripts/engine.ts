@@ -2,11 +2,10 @@
 // on standard input and writes one on standard output, for scripts, benchmarks and checks.
 // Bad input exits with 2 and a message on standard error; stdout then stays empty.
 import { z } from 'zod'
-import { gradeAttempt } from '../shared/engine/grade'
-import { PitchError, toMidi } from '../shared/engine/pitch'
-import { suggestFingering } from '../shared/engine/suggest'
+import { gradeAttempt, PitchError, suggestFingering, toMidi } from '../shared/engine'
 import { PlayedEvent } from '../shared/types/attempt'
 import { DrillMusic, Hand, HandSize } from '../shared/types/drill'
+import { TEMPO_LIMITS } from '../shared/utils/tempo'
 
 const PitchValue = z.union([z.number(), z.string()])
 
@@ -33,7 +32,7 @@ const GradeRequest = z.object({
   // Wider than a saved attempt's limit, so benchmarks and checks can feed long runs.
   events: z.array(PlayedEvent).max(1_000_000),
   options: z.object({
-    targetBpm: z.number().min(20).max(320).optional(),
+    targetBpm: z.number().min(TEMPO_LIMITS.min).max(TEMPO_LIMITS.max).optional(),
     handSize: HandSize.optional(),
   }).optional(),
 })

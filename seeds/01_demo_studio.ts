@@ -1,7 +1,7 @@
 // Builds the invented demo studio once; a second run finds the demo teacher and leaves everything as it is.
 import { randomUUID } from 'node:crypto'
 import type { Knex } from 'knex'
-import { ENGINE_VERSION, gradeAttempt } from '../shared/engine/grade'
+import { ENGINE_VERSION, gradeAttempt } from '../shared/engine'
 import { hashPassword } from '../scripts/lib/password'
 import { assignments, classes, DEMO_PASSWORD, drills, drillSets, students, teacher } from './demo/studio'
 import { performDrill, randomSource } from './demo/performance'

@@ -1,6 +1,6 @@
 // Geometry and shared state of the on-screen keyboard (components/keyboard/).
 import { Midi, Note } from 'tonal'
-import { isBlackKey, keyCenterMm, WHITE_KEY_MM } from '#shared/engine/keys'
+import { isBlackKey, keyCenterMm, WHITE_KEY_MM } from '#shared/engine'
 
 /** Black key width at the front, in mm (common modern grand/upright measurement). */
 export const BLACK_KEY_MM = 13.7

@@ -1,6 +1,6 @@
 // The invented demo studio: people, classes and drills of our own making. Fingerings are the
 // usual teaching fingerings (common practice), written by hand.
-import type { DrillNote, Hand } from '../../shared/types/drill'
+import type { DrillKind, DrillNote, Hand } from '../../shared/types/drill'
 
 export const DEMO_PASSWORD = 'evenhand-demo'
 
@@ -24,7 +24,7 @@ export interface DemoDrill {
   slug: string
   title: string
   description: string
-  kind: 'scale' | 'arpeggio' | 'five-finger' | 'sequence' | 'passage'
+  kind: Exclude<DrillKind, 'other'>
   hand: Hand | 'both'
   key: string
   meter: string

@@ -2,8 +2,7 @@ import type { Knex } from 'knex'
 import { z } from 'zod'
 import type { User } from '#auth-utils'
 import type { AttemptInput } from '#shared/types/attempt'
-import type { GradeResult } from '#shared/engine/types'
-import { ENGINE_VERSION, gradeAttempt } from '#shared/engine/grade'
+import { ENGINE_VERSION, gradeAttempt, type GradeResult } from '#shared/engine'
 
 export const AttemptParams = z.object({ id: z.uuid({ error: 'not an attempt id' }) })
 

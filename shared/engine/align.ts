@@ -43,7 +43,7 @@ export interface AlignOptions {
   toleranceMs?: number
 }
 
-/** Same window the inference uses for chords, so both modules see the same groups. */
+/** Onsets this close together are one chord (a common threshold for "played together"; our choice); the inference groups chords by the same window. */
 export const CHORD_WINDOW_MS = 30
 /**
  * Two notes the drill writes on one beat (often one in each hand) may be struck this far apart

@@ -2,6 +2,7 @@
 // rest of the app accepts (the same limits as a typed drill), with one kind of error.
 import { DrillMusic } from '../types/drill'
 import type { DrillHand } from '../types/drill'
+import { TEMPO_LIMITS } from '../utils/tempo'
 import type { DrillNote, ImportedDrill } from './types'
 
 export class ImportError extends Error {
@@ -11,7 +12,7 @@ export class ImportError extends Error {
 /** Files use any tempo; a drill keeps a whole number of beats per minute within what the app plays. */
 export function drillTempo(bpm: number | null | undefined): number {
   if (bpm === null || bpm === undefined || !Number.isFinite(bpm) || bpm <= 0) return DEFAULT_TEMPO_BPM
-  return Math.min(320, Math.max(20, Math.round(bpm)))
+  return Math.min(TEMPO_LIMITS.max, Math.max(TEMPO_LIMITS.min, Math.round(bpm)))
 }
 
 /** The tempo a file without one is played at (SMF 1.0: 120 beats per minute when no tempo event is given). */

@@ -1,6 +1,9 @@
 // The engine's public face: what pages, server routes and scripts import.
 export type * from './types'
 export * from './pitch'
+export { WHITE_KEY_MM } from './keys'
+export { HAND_SIZE_FACTOR } from './spans'
+export { pairNoteEvents } from './performance'
 export { NOTATION_HELP, NotationError, formatNotation, parseNotation, type FormatOptions, type NotationOptions } from './notation'
 export { ImportError } from './importing'
 export { EXPORT_PPQ, exportAttemptSmf, exportDrillSmf, importSmf, type AttemptExportOptions, type SmfImportOptions } from './smf'

@@ -1,6 +1,7 @@
 // The fingering a student probably used, from what they played: ergonomic prior plus timing and velocity evidence.
 import { cheapestPath, optionPosteriors, type Lattice } from './chain'
 import { costModel, fitsPosition, PERFORMANCE_WEIGHTS, touchPositionStarts, type Touch } from './ergonomics'
+import { CHORD_WINDOW_MS } from './align'
 import { chosenTouches, lineLattice, type LineLattice } from './lattice'
 import { pairSpan, MAX_PRAC, MIN_PRAC, type SpanRow } from './spans'
 import { median } from './stats'
@@ -9,9 +10,6 @@ import type { Finger, Hand, HandSize } from './types'
 
 export interface PerformedNote { midi: number, onMs: number, offMs: number | null, velocity: number }
 export interface InferResult { fingers: { finger: Finger, confidence: number }[], positions: number[] }
-
-/** Onsets this close together are one chord (a common threshold for "played together"; our choice). */
-const CHORD_WINDOW_MS = 30
 
 /**
  * Ergonomic points per unit of log-likelihood: a fingering's prior probability is proportional to

@@ -5,7 +5,9 @@
 // one voice is one hand, two are both hands (the higher one on average is the right hand).
 // Out: 960 ticks per quarter note, which keeps an attempt's millisecond times within one tick
 // at any tempo up to 62 beats per second.
-import { Midi } from '@tonejs/midi'
+// The package's main file is a bundle whose named exports Node's ESM loader cannot see (the command
+// line and the seed run the engine under Node); its CommonJS build file exports `Midi` by name.
+import { Midi } from '@tonejs/midi/dist/Midi.js'
 import { ImportError, drillTempo, finishImport, roundBeat, DEFAULT_TEMPO_BPM } from './importing'
 import { noteHand } from './hands'
 import { pairNoteEvents } from './performance'

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { TEMPO_LIMITS } from '../utils/tempo'
 
 /** One key press or release as captured from MIDI or the on-screen keys; times in ms from the attempt's start. */
 export const PlayedEvent = z.object({
@@ -27,7 +28,7 @@ export const AttemptInput = z.object({
   drillVersion: z.number().int().positive(),
   assignmentId: z.number().int().positive().nullable().optional(),
   startedAt: z.iso.datetime({ offset: true }),
-  tempoBpm: z.number().min(20).max(320),
+  tempoBpm: z.number().min(TEMPO_LIMITS.min).max(TEMPO_LIMITS.max),
   inputDevice: InputDevice,
   deviceName: z.string().trim().max(200).optional(),
   events: z.array(PlayedEvent).max(20_000),

@@ -1,10 +1,12 @@
 // The signed-in user as kept in the sealed session cookie.
+import type { Role } from './account'
+
 declare module '#auth-utils' {
   interface User {
     id: number
     email: string
     name: string
-    role: 'teacher' | 'student' | 'admin'
+    role: Role
   }
 }
 

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { TEMPO_LIMITS } from '../utils/tempo'
 
 /** A hand that plays a line. */
 export const Hand = z.enum(['right', 'left'])
@@ -11,6 +12,10 @@ export type DrillHand = z.infer<typeof DrillHand>
 /** Fingers are numbered 1 (thumb) to 5 (little finger) on both hands, as in printed fingering. */
 export const Finger = z.number().int().min(1).max(5)
 export type Finger = z.infer<typeof Finger>
+
+/** What a drill trains; `other` for anything that is none of the named kinds. */
+export const DrillKind = z.enum(['scale', 'arpeggio', 'five-finger', 'sequence', 'passage', 'other'])
+export type DrillKind = z.infer<typeof DrillKind>
 
 export const HandSize = z.enum(['small', 'medium', 'large'])
 export type HandSize = z.infer<typeof HandSize>
@@ -33,7 +38,7 @@ export type DrillNote = z.infer<typeof DrillNote>
 
 export const DrillMusic = z.object({
   hand: DrillHand,
-  tempoBpm: z.number().int().min(20).max(320),
+  tempoBpm: z.number().int().min(TEMPO_LIMITS.min).max(TEMPO_LIMITS.max),
   notes: z.array(DrillNote).min(1).max(5000),
 })
 export type DrillMusic = z.infer<typeof DrillMusic>

@@ -1,8 +1,9 @@
 import { z } from 'zod'
 import type { DrillRow } from '../../utils/drills'
+import { DrillKind } from '#shared/types/drill'
 
 const Query = z.object({
-  kind: z.enum(['scale', 'arpeggio', 'five-finger', 'sequence', 'passage', 'other']).optional(),
+  kind: DrillKind.optional(),
 })
 
 export default defineEventHandler(async (event) => {
