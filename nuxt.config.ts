@@ -16,6 +16,7 @@ export default defineNuxtConfig({
       htmlAttrs: { lang: 'en' },
       title: 'Evenhand',
       meta: [{ name: 'viewport', content: 'width=device-width, initial-scale=1' }],
+      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
     },
   },
   runtimeConfig: {
