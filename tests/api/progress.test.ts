@@ -6,7 +6,7 @@ afterAll(closeTestDb)
 interface Progress {
   students: { id: number, name: string }[]
   drills: { id: number, title: string }[]
-  cells: Record<string, Record<string, { attempts: number, best: number | null, latest: number | null, overdue: boolean }>>
+  cells: Record<string, Record<string, { attempts: number, best: number | null, latest: number | null, trend: number | null, overdue: boolean }>>
 }
 
 async function tuesdayId(): Promise<number> {
@@ -29,6 +29,54 @@ describe('class progress', () => {
     expect(cell.best).toBe(Math.max(...stored.map(a => a.score)))
     expect(cell.latest).toBe(stored.at(-1).score)
   })
+
+  it('gives each cell its trend (latest against the mean of up to four before) and marks it overdue past the due date below the target', async () => {
+    const db = testDb()
+    const cls = await db('classes').where({ name: 'Thursday Developing' }).first('id', 'teacher_id')
+    // A set the class was given a month ago with a target nobody reached, so some cells are overdue.
+    const practised = await db('attempts as a').join('class_members as m', 'm.student_id', 'a.student_id').where('m.class_id', cls.id).first('a.drill_id')
+    const [setId] = await db('drill_sets').insert({ owner_id: cls.teacher_id, title: 'Overdue check' })
+    try {
+      await db('drill_set_items').insert({ drill_set_id: setId, drill_id: practised.drill_id, position: 0, target_score: 100 })
+      await db('assignments').insert({ drill_set_id: setId, class_id: cls.id, assigned_by: cls.teacher_id, due_at: new Date(Date.now() - 30 * 86_400_000) })
+      await checkTrendAndOverdue(Number(cls.id))
+    }
+    finally {
+      await db('drill_sets').where({ id: setId }).delete()
+    }
+  })
+
+  async function checkTrendAndOverdue(classId: number): Promise<void> {
+    const db = testDb()
+    const teacher = await new Client().signIn('teacher@evenhand.test')
+    const res = await teacher.get<Progress>(`/api/classes/${classId}/progress`)
+    expect(res.status).toBe(200)
+    const items: { drill_id: number, target_score: number | null, due_at: Date }[] = await db('assignments as a')
+      .join('drill_set_items as i', 'i.drill_set_id', 'a.drill_set_id').where('a.class_id', classId)
+      .orderBy([{ column: 'a.due_at' }, { column: 'i.position' }]).select('i.drill_id', 'i.target_score', 'a.due_at')
+    const trends: (number | null)[] = []
+    const overdue: boolean[] = []
+    for (const student of res.body.students) {
+      for (const drill of res.body.drills) {
+        const scores = (await db('attempts').where({ student_id: student.id, drill_id: drill.id }).orderBy('started_at').select('score')).map(r => Number(r.score))
+        const before = scores.slice(-5, -1)
+        const wantTrend = before.length ? scores.at(-1)! - before.reduce((a, b) => a + b, 0) / before.length : null
+        // The earliest assignment that holds the drill decides its due date and target.
+        const item = items.find(i => Number(i.drill_id) === drill.id)!
+        const best = scores.length ? Math.max(...scores) : null
+        const wantOverdue = new Date(item.due_at).getTime() < Date.now() && (best === null || best < (item.target_score ?? 0))
+        const cell = res.body.cells[student.id]![drill.id]!
+        if (wantTrend === null) expect(cell.trend).toBeNull()
+        else expect(cell.trend).toBeCloseTo(wantTrend, 6)
+        expect(cell.overdue).toBe(wantOverdue)
+        trends.push(cell.trend)
+        overdue.push(cell.overdue)
+      }
+    }
+    expect(overdue).toContain(true)
+    expect(overdue).toContain(false)
+    expect(trends.some(t => t !== null && t !== 0)).toBe(true)
+  }
 
   it('exports the same table as CSV, one row per student and drill', async () => {
     const id = await tuesdayId()
