@@ -1,11 +1,9 @@
-// The cost of a fingering: Parncutt et al. 1997 rules plus a few rules of the trade, in right-hand space.
+// The rules of a fingering's cost: Parncutt et al. 1997 rules plus a few rules of the trade, in right-hand space,
+// and a fingering scored rule by rule. The precomputed cost model is in costs.ts, hand positions in positions.ts.
 import { isBlackKey } from './keys'
 import { MAX_COMF, MAX_PRAC, MAX_REL, MIN_COMF, MIN_PRAC, MIN_REL, pairSpan, spanTable, type SpanRow } from './spans'
-import { itemPitchesLowToHigh, toRightHandSpace } from './touches'
+import { lineTouches, type Touch } from './touches'
 import type { Finger, Hand, HandSize, LineItem } from './types'
-
-/** One finger on one key, the key in right-hand space (see touches.ts). */
-export interface Touch { f: Finger, k: number }
 
 export type Rule =
   | 'stretch' | 'smallSpan' | 'largeSpan' | 'positionChangeCount' | 'positionChangeSize' | 'weakFinger'
@@ -14,7 +12,8 @@ export type Rule =
 
 export type RuleWeights = Readonly<Record<Rule, number>>
 
-type Add = (rule: Rule, points: number) => void
+/** How a rule hands out its points: the cost model weighs them, scoreFingering keeps them by rule. */
+export type Add = (rule: Rule, points: number) => void
 
 const PAPER_RULE_WEIGHT = 1
 
@@ -216,131 +215,7 @@ export function chordTransitionRules(table: SpanRow[][], from: Touch[], to: Touc
   }
 }
 
-// --- Precomputed tables for single-note lines -----------------------------------------------------
-
-const KEY_RANGE = 257
-const KEY_OFFSET = 128
-
-export interface CostModel {
-  readonly table: SpanRow[][]
-  readonly weights: RuleWeights
-  /** Cost of each finger on the first key of a line, index finger − 1. */
-  first(k: number): Float64Array
-  /** Cost of moving between two single notes, index (fa − 1) · 5 + (fb − 1); includes b's own rules. */
-  pair(ka: number, kb: number): Float64Array
-  /** Extra cost of three consecutive single notes, index ((fa − 1) · 5 + (fb − 1)) · 5 + (fc − 1). */
-  triple(ka: number, kb: number, kc: number): Float64Array
-}
-
-const FINGER_LIST: readonly Finger[] = [1, 2, 3, 4, 5]
-const pc = (k: number): number => ((k % 12) + 12) % 12
-const clampInterval = (d: number): number => Math.max(-KEY_OFFSET, Math.min(KEY_OFFSET, d))
-
-/** The weighted sum of the points that `run` hands to its callback. */
-export function weigh(weights: RuleWeights, run: (add: Add) => void): number {
-  let total = 0
-  run((rule, points) => { total += weights[rule] * points })
-  return total
-}
-
-/**
- * Builds the cost tables lazily: a pair's cost depends only on the first key's pitch class and the
- * interval (which fix both colours and the span), a triple's only on the two intervals, so a whole
- * line needs at most a few thousand small tables and the search itself only reads arrays.
- */
-export function createCostModel(handSize: HandSize = 'medium', weights: RuleWeights = LEGATO_WEIGHTS): CostModel {
-  const table = spanTable(handSize)
-  const firsts: (Float64Array | undefined)[] = new Array(12)
-  const pairs: (Float64Array | undefined)[] = new Array(12 * KEY_RANGE)
-  const triples: (Float64Array | undefined)[] = new Array(KEY_RANGE * KEY_RANGE)
-  return {
-    table,
-    weights,
-    first(k) {
-      const p = pc(k)
-      let out = firsts[p]
-      if (!out) {
-        out = new Float64Array(5)
-        for (const f of FINGER_LIST) out[f - 1] = weigh(weights, add => noteRules({ f, k: p }, add))
-        firsts[p] = out
-      }
-      return out
-    },
-    pair(ka, kb) {
-      const p = pc(ka)
-      const d = clampInterval(kb - ka)
-      const slot = p * KEY_RANGE + d + KEY_OFFSET
-      let out = pairs[slot]
-      if (!out) {
-        out = new Float64Array(25)
-        for (const fa of FINGER_LIST) {
-          for (const fb of FINGER_LIST) {
-            out[(fa - 1) * 5 + fb - 1] = weigh(weights, add => pairRules(table, { f: fa, k: p }, { f: fb, k: p + d }, add))
-          }
-        }
-        pairs[slot] = out
-      }
-      return out
-    },
-    triple(ka, kb, kc) {
-      const d1 = clampInterval(kb - ka)
-      const d2 = clampInterval(kc - kb)
-      const slot = (d1 + KEY_OFFSET) * KEY_RANGE + d2 + KEY_OFFSET
-      let out = triples[slot]
-      if (!out) {
-        out = new Float64Array(125)
-        for (const fa of FINGER_LIST) {
-          for (const fb of FINGER_LIST) {
-            for (const fc of FINGER_LIST) {
-              out[((fa - 1) * 5 + fb - 1) * 5 + fc - 1] = weigh(weights, add =>
-                tripleRules(table, { f: fa, k: 0 }, { f: fb, k: d1 }, { f: fc, k: d1 + d2 }, add))
-            }
-          }
-        }
-        triples[slot] = out
-      }
-      return out
-    },
-  }
-}
-
-const modelCache = new WeakMap<RuleWeights, Map<HandSize, CostModel>>()
-
-/** One shared model per weighting and hand size; the tables only grow and are never invalidated. */
-export function costModel(handSize: HandSize = 'medium', weights: RuleWeights = LEGATO_WEIGHTS): CostModel {
-  let bySize = modelCache.get(weights)
-  if (!bySize) {
-    bySize = new Map()
-    modelCache.set(weights, bySize)
-  }
-  let model = bySize.get(handSize)
-  if (!model) {
-    model = createCostModel(handSize, weights)
-    bySize.set(handSize, model)
-  }
-  return model
-}
-
 // --- Whole fingerings -----------------------------------------------------------------------------
-
-/** The touches of each item: keys in right-hand space with their fingers (chord fingers given low to high in pitch). */
-export function lineTouches(hand: Hand, items: LineItem[], fingers: (Finger | Finger[])[]): Touch[][] {
-  return items.map((item, i) => {
-    const given = fingers[i]
-    if (!Array.isArray(item)) return typeof given === 'number' ? [{ f: given, k: toRightHandSpace(hand, item) }] : []
-    const list = Array.isArray(given) ? given : given === undefined ? [] : [given]
-    const seen = new Set<number>()
-    const touches: Touch[] = []
-    itemPitchesLowToHigh(item).forEach((midi, j) => {
-      const f = list[j]
-      const k = toRightHandSpace(hand, midi)
-      if (f === undefined || seen.has(k)) return
-      seen.add(k)
-      touches.push({ f, k })
-    })
-    return touches.sort((x, y) => x.k - y.k)
-  })
-}
 
 export interface FingeringScore {
   total: number
@@ -371,52 +246,4 @@ export function scoreFingering(hand: Hand, items: LineItem[], fingers: (Finger |
   let total = 0
   for (const rule of Object.keys(byRule) as Rule[]) total += weights[rule] * byRule[rule]
   return { total, byRule }
-}
-
-/** Two touches fit one hand position: different fingers in key order within the comfortable span, or one finger on one key. */
-export function fitsPosition(table: SpanRow[][], a: Touch, b: Touch): boolean {
-  if (a.f === b.f) return a.k === b.k
-  const { row, s } = pairSpan(table, a.f, a.k, b.f, b.k)
-  return s > 0 && s >= row[MIN_COMF] && s <= row[MAX_COMF]
-}
-
-/**
- * Indices of the items where a new hand position begins for a given fingering (first item not counted).
- * A hand position is the set of touches since the last change; a note starts a new one when it does
- * not fit with every touch of the current one (a crossing, the same finger on another key, or a span
- * beyond the comfortable range), which is how teachers mark a "new position" in a drill.
- */
-export function positionStarts(hand: Hand, items: LineItem[], fingers: (Finger | Finger[])[], handSize: HandSize = 'medium'): number[] {
-  return touchPositionStarts(lineTouches(hand, items, fingers), spanTable(handSize))
-}
-
-/** positionStarts for a line already given as touches (keys in right-hand space, ascending in each item). */
-export function touchPositionStarts(line: Touch[][], table: SpanRow[][]): number[] {
-  const starts: number[] = []
-  let current: Touch[] = []
-  for (let i = 0; i < line.length; i++) {
-    const touches = line[i]!
-    if (touches.length === 0) continue
-    if (fitsAll(table, current, touches)) {
-      // A finger that plays again now sits on its new key (which fitting allows only if it is the same key);
-      // any other finger joins the position.
-      for (const t of touches) {
-        let same = 0
-        while (same < current.length && current[same]!.f !== t.f) same++
-        current[same] = t
-      }
-      continue
-    }
-    if (current.length > 0) starts.push(i)
-    current = touches.slice()
-  }
-  return starts
-}
-
-/** Whether every touch fits one hand position with every touch held. */
-function fitsAll(table: SpanRow[][], held: Touch[], touches: Touch[]): boolean {
-  for (const t of touches) {
-    for (const h of held) if (!fitsPosition(table, h, t)) return false
-  }
-  return true
 }

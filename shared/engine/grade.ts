@@ -14,7 +14,7 @@
 //   so three clean notes out of a hundred do not earn the timing and tempo marks. Where no note
 //   carried a velocity (on-screen keys), loudness drops out and the other weights are rescaled.
 import { alignmentSides, alignSides, type Alignment } from './align'
-import { positionStarts } from './ergonomics'
+import { positionStarts } from './positions'
 import { noteHand } from './hands'
 import { inferFingering, type PerformedNote } from './infer'
 import { pairNoteEvents, type PlayedNote } from './performance'

@@ -1,11 +1,13 @@
 // The fingering a student probably used, from what they played: ergonomic prior plus timing and velocity evidence.
 import { cheapestPath, optionPosteriors, type Lattice } from './chain'
-import { costModel, fitsPosition, PERFORMANCE_WEIGHTS, touchPositionStarts, type Touch } from './ergonomics'
+import { costModel } from './costs'
+import { PERFORMANCE_WEIGHTS } from './ergonomics'
+import { fitsPosition, touchPositionStarts } from './positions'
 import { CHORD_WINDOW_MS } from './align'
 import { chosenTouches, lineLattice, type LineLattice } from './lattice'
 import { pairSpan, MAX_PRAC, MIN_PRAC, type SpanRow } from './spans'
 import { median } from './stats'
-import { toRightHandSpace } from './touches'
+import { toRightHandSpace, type Touch } from './touches'
 import type { Finger, Hand, HandSize } from './types'
 
 export interface PerformedNote { midi: number, onMs: number, offMs: number | null, velocity: number }

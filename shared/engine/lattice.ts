@@ -1,7 +1,8 @@
 // The ergonomic cost of a line as a chain lattice: options are finger choices (chord assignments for chords).
 import type { Lattice } from './chain'
-import { chordRules, chordTransitionRules, weigh, type CostModel, type Touch } from './ergonomics'
-import { chordOptions } from './touches'
+import { weigh, type CostModel } from './costs'
+import { chordRules, chordTransitionRules } from './ergonomics'
+import { chordOptions, type Touch } from './touches'
 import type { Finger } from './types'
 
 export interface LineLattice extends Lattice {

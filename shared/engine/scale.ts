@@ -1,5 +1,5 @@
 // The fingering of a scale run: one finger per pitch class, chosen by search over the whole line.
-import type { CostModel } from './ergonomics'
+import type { CostModel } from './costs'
 import { isBlackKey } from './keys'
 import type { Finger } from './types'
 

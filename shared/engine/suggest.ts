@@ -1,10 +1,11 @@
 // The cheapest fingering of a one-hand line or chord sequence under the ergonomic model.
 import { cheapestPath, pathCost, type Lattice } from './chain'
-import { costModel, positionStarts, type Touch } from './ergonomics'
+import { costModel } from './costs'
+import { positionStarts } from './positions'
 import { isBlackKey, keyCenterMm, WHITE_KEY_MM } from './keys'
 import { chosenTouches, lineLattice } from './lattice'
 import { FORBIDDEN, scaleFingering, scalePhases } from './scale'
-import { itemKeys, itemPitchesLowToHigh, toRightHandSpace } from './touches'
+import { itemKeys, itemPitchesLowToHigh, toRightHandSpace, type Touch } from './touches'
 import type { Finger, Hand, LineItem, SuggestInput, SuggestResult } from './types'
 
 /**

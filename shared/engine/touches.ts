@@ -1,6 +1,9 @@
 // A line item seen from the hand: its keys in right-hand space and the ways fingers can take them.
 import type { Finger, Hand, LineItem } from './types'
 
+/** One finger on one key, the key in right-hand space. */
+export interface Touch { f: Finger, k: number }
+
 /**
  * The left hand is the mirror image of the right, so the model only knows the right hand and the
  * left hand's keys are mirrored around D4 (62): 2·62 − midi maps white to white and black to black
@@ -54,4 +57,23 @@ export function chordOptions(count: number): Finger[][] {
     optionCache.set(count, options)
   }
   return options
+}
+
+/** The touches of each item: keys in right-hand space with their fingers (chord fingers given low to high in pitch). */
+export function lineTouches(hand: Hand, items: LineItem[], fingers: (Finger | Finger[])[]): Touch[][] {
+  return items.map((item, i) => {
+    const given = fingers[i]
+    if (!Array.isArray(item)) return typeof given === 'number' ? [{ f: given, k: toRightHandSpace(hand, item) }] : []
+    const list = Array.isArray(given) ? given : given === undefined ? [] : [given]
+    const seen = new Set<number>()
+    const touches: Touch[] = []
+    itemPitchesLowToHigh(item).forEach((midi, j) => {
+      const f = list[j]
+      const k = toRightHandSpace(hand, midi)
+      if (f === undefined || seen.has(k)) return
+      seen.add(k)
+      touches.push({ f, k })
+    })
+    return touches.sort((x, y) => x.k - y.k)
+  })
 }

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { positionStarts, scoreFingering, type Rule } from '../../../shared/engine/ergonomics'
+import { scoreFingering, type Rule } from '../../../shared/engine/ergonomics'
+import { positionStarts } from '../../../shared/engine/positions'
 import { HAND_SIZE_FACTOR, PARNCUTT_SPANS, spanTable, type FingerPair, type SpanRow } from '../../../shared/engine/spans'
 import type { Finger } from '../../../shared/engine/types'
 
