@@ -2,8 +2,10 @@
 // machine is shared). The browser's latency and page size: `npm run bench:browser`.
 import { benchGrade } from './grade'
 import { benchPractice } from './practice'
+import { benchRecovery } from './recovery'
 import { benchSuggest } from './suggest'
 
 benchSuggest()
 benchGrade()
 benchPractice()
+benchRecovery()
