@@ -1,10 +1,10 @@
-// The engine on the command line: `npm run -s engine -- suggest|grade` reads one JSON document
+// The engine on the command line: `npm run -s engine -- suggest|grade|check` reads one JSON document
 // on standard input and writes one on standard output, for scripts, benchmarks and checks.
 // Bad input exits with 2 and a message on standard error; stdout then stays empty.
 import { z } from 'zod'
-import { gradeAttempt, PitchError, suggestFingering, toMidi } from '../shared/engine'
+import { checkFingering, gradeAttempt, PitchError, suggestFingering, toMidi } from '../shared/engine'
 import { PlayedEvent } from '../shared/types/attempt'
-import { DrillMusic, Hand, HandSize } from '../shared/types/drill'
+import { DrillMusic, Finger, Hand, HandSize } from '../shared/types/drill'
 import { TEMPO_LIMITS } from '../shared/utils/tempo'
 
 const PitchValue = z.union([z.number(), z.string()])
@@ -27,6 +27,15 @@ const SuggestRequest = z.object({
   handSize: HandSize.optional(),
 })
 
+const CheckRequest = z.object({
+  hand: Hand,
+  notes: z.array(LineItemInput).min(1).max(5000),
+  /** One per note: a finger, an array (low to high) for a chord, or null where left open. */
+  fingers: z.array(z.union([Finger, z.array(Finger).min(1).max(10)]).nullable()).max(5000),
+  handSize: HandSize.optional(),
+  legato: z.boolean().optional(),
+}).refine(r => r.fingers.length === r.notes.length, { message: 'fingers: give one entry per note (null where the finger is left open)', path: ['fingers'] })
+
 const GradeRequest = z.object({
   drill: DrillMusic,
   // Wider than a saved attempt's limit, so benchmarks and checks can feed long runs.
@@ -46,8 +55,8 @@ function validate<T extends z.ZodType>(schema: T, data: unknown): z.output<T> {
 }
 
 function run(command: string | undefined, input: string): unknown {
-  if (command !== 'suggest' && command !== 'grade') {
-    throw new InputError(`Usage: npm run -s engine -- suggest|grade < input.json (got ${command === undefined ? 'no command' : `"${command}"`})`)
+  if (command !== 'suggest' && command !== 'grade' && command !== 'check') {
+    throw new InputError(`Usage: npm run -s engine -- suggest|grade|check < input.json (got ${command === undefined ? 'no command' : `"${command}"`})`)
   }
   let data: unknown
   try {
@@ -60,6 +69,10 @@ function run(command: string | undefined, input: string): unknown {
     const request = validate(SuggestRequest, data)
     const result = suggestFingering(request)
     return { fingers: result.fingers, positionChanges: result.positionChanges, positions: result.positions, cost: result.cost }
+  }
+  if (command === 'check') {
+    const request = validate(CheckRequest, data)
+    return { issues: checkFingering(request) }
   }
   const request = validate(GradeRequest, data)
   return gradeAttempt(request.drill, request.events, request.options)

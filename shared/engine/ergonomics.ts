@@ -9,6 +9,7 @@ export type Rule =
   | 'stretch' | 'smallSpan' | 'largeSpan' | 'positionChangeCount' | 'positionChangeSize' | 'weakFinger'
   | 'threeFourFive' | 'threeToFour' | 'fourOnBlack' | 'thumbOnBlack' | 'fiveOnBlack' | 'thumbPassing'
   | 'sameFinger' | 'beyondReach' | 'crossing' | 'fourFiveAlternation' | 'repeatFingerChange' | 'chordShift' | 'chordShape'
+  | 'arpeggioPassing'
 
 export type RuleWeights = Readonly<Record<Rule, number>>
 
@@ -49,6 +50,7 @@ export const LEGATO_WEIGHTS: RuleWeights = {
   repeatFingerChange: 1,
   chordShift: 1,
   chordShape: 1,
+  arpeggioPassing: 1,
 }
 
 /**
@@ -70,6 +72,21 @@ const CROSSING_POINTS: Readonly<Record<Finger, number>> = { 1: 0, 2: 1, 3: 0, 4:
  * (the printed scale tables pass under 4 once an octave), so 4 takes 3's value.
  */
 const CROSSING_MIN_REL: Readonly<Record<Finger, number>> = { 1: 0, 2: 3, 3: 3, 4: 3, 5: 7 }
+
+/**
+ * The widest thumb passing an arpeggio asks of each finger, in semitones (common practice, from
+ * memory: the printed arpeggios pass the thumb under 3 across a fourth in root position, C E G C
+ * with 1 2 3 1, and under 4 across a third or a fourth in the inversions, E G C E with 1 2 4 1). The
+ * published table puts these beyond the practical span (1–3 MinPrac −4, 1–4 MinPrac −3), because it
+ * describes a hand kept in place; in an arpeggio the arm carries the hand over the thumb. So this is
+ * a rule of its own, `arpeggioPassing`, beside the published figures rather than an edit of them.
+ */
+const ARPEGGIO_PASS_SEMITONES: Readonly<Record<Finger, number>> = { 1: 0, 2: 5, 3: 5, 4: 5, 5: 0 }
+
+/** How far the thumb may pass under (or a finger over) it in an arpeggio, by the other finger. */
+export function arpeggioPassReach(other: Finger): number {
+  return ARPEGGIO_PASS_SEMITONES[other] ?? 0
+}
 
 /** Semitones above the thumb of each finger's key in the rest position C D E F G (index = finger). */
 const REST_POSITION = [0, 0, 2, 4, 5, 7]
@@ -127,17 +144,24 @@ export function pairRules(table: SpanRow[][], a: Touch, b: Touch, add: Add): voi
   // Parncutt et al. 1997, rule 8 (three to four): 1 point each time 3 is immediately followed by 4.
   if (a.f === 3 && b.f === 4) add('threeToFour', 1)
   const { row, s } = pairSpan(table, a.f, a.k, b.f, b.k)
+  const thumb = a.f === 1 || b.f === 1
+  const other = a.f === 1 ? b : a
+  if (thumb && s < row[MIN_PRAC] && -s <= arpeggioPassReach(other.f)) {
+    // An arpeggio's thumb passing (see ARPEGGIO_PASS_SEMITONES): 1 point per semitone beyond the
+    // comfortable crossing, and the ordinary crossing points, instead of a move beyond reach.
+    add('arpeggioPassing', row[MIN_COMF] - s)
+    add('crossing', CROSSING_POINTS[other.f] ?? 0)
+    return
+  }
   if (s < row[MIN_PRAC] || s > row[MAX_PRAC]) {
     // Beyond the practical span the hand has to leave the keys, so the legato span rules no longer describe the move.
     add('beyondReach', 1)
     return
   }
-  const thumb = a.f === 1 || b.f === 1
   const crossing = thumb && s < 0
-  spanRules(row, s, thumb, add, (crossing ? CROSSING_MIN_REL[a.f === 1 ? b.f : a.f] : undefined) ?? row[MIN_REL])
+  spanRules(row, s, thumb, add, (crossing ? CROSSING_MIN_REL[other.f] : undefined) ?? row[MIN_REL])
   if (crossing) {
     const thumbKey = a.f === 1 ? a.k : b.k
-    const other = a.f === 1 ? b : a
     // Rule 12 (thumb passing): 1 point for a pass on one level (white–white, black–black),
     // 3 points when the finger is on white below and the thumb on black above.
     if (isBlackKey(thumbKey) === isBlackKey(other.k)) add('thumbPassing', 1)

@@ -59,3 +59,19 @@ export function lineLattice(keys: number[][], model: CostModel): LineLattice {
 export function chosenTouches(lattice: LineLattice, path: number[]): Touch[][] {
   return path.map((o, i) => touchesOf(lattice.keys[i]!, lattice.options[i]![o]!))
 }
+
+/** The same lattice with a cost added to each option of each item (an option of a single note is its finger − 1). */
+export function withOptionPenalty(lattice: Lattice, penalty: (i: number, option: number) => number): Lattice {
+  const penalise = (costs: ArrayLike<number>, i: number): Float64Array => {
+    const out = new Float64Array(costs)
+    const size = lattice.sizes[i]!
+    for (let j = 0; j < out.length; j++) out[j] = out[j]! + penalty(i, j % size)
+    return out
+  }
+  return {
+    sizes: lattice.sizes,
+    first: () => penalise(lattice.first(), 0),
+    pair: i => penalise(lattice.pair(i), i),
+    triple: i => lattice.triple(i),
+  }
+}

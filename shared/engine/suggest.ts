@@ -3,7 +3,7 @@ import { cheapestPath, pathCost, type Lattice } from './chain'
 import { costModel } from './costs'
 import { positionStarts } from './positions'
 import { isBlackKey, keyCenterMm, WHITE_KEY_MM } from './keys'
-import { chosenTouches, lineLattice } from './lattice'
+import { chosenTouches, lineLattice, withOptionPenalty } from './lattice'
 import { FORBIDDEN, scaleFingering, scalePhases } from './scale'
 import { itemKeys, itemPitchesLowToHigh, toRightHandSpace, type Touch } from './touches'
 import type { Finger, Hand, LineItem, SuggestInput, SuggestResult } from './types'
@@ -66,18 +66,7 @@ function sharedPattern(fingers: Finger[], phases: number[]): Map<number, Finger>
 
 /** The same lattice of single notes with a cost added to each note's fingers. */
 function withPenalty(lattice: Lattice, penalty: (i: number, finger: Finger) => number): Lattice {
-  const penalise = (costs: ArrayLike<number>, i: number): Float64Array => {
-    const out = new Float64Array(costs)
-    const size = lattice.sizes[i]!
-    for (let j = 0; j < out.length; j++) out[j] = out[j]! + penalty(i, ((j % size) + 1) as Finger)
-    return out
-  }
-  return {
-    sizes: lattice.sizes,
-    first: () => penalise(lattice.first(), 0),
-    pair: i => penalise(lattice.pair(i), i),
-    triple: i => lattice.triple(i),
-  }
+  return withOptionPenalty(lattice, (i, option) => penalty(i, (option + 1) as Finger))
 }
 
 /** The result's fingers: a number per single note, an array per chord, low to high in pitch. */

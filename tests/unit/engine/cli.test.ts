@@ -49,7 +49,22 @@ describe('scripts/engine.ts', () => {
     expect(out.loudness).toHaveProperty('byFinger')
   })
 
+  it('check: names each awkward spot of a fingering with its note index', () => {
+    // Common practice: C D E F G sits in one position (1 2 3 4 5), and 4 and 5 should not alternate.
+    const run = engine('check', JSON.stringify({ hand: 'right', notes: ['C4', 'D4', 'E4', 'F4', 'G4', 'F4', 'G4', 'F4'], fingers: [1, 2, 3, 1, 5, 4, 5, 4] }))
+    expect(run.status).toBe(0)
+    const out = JSON.parse(run.stdout)
+    expect(Object.keys(out)).toEqual(['issues'])
+    expect(out.issues[0]).toMatchObject({ index: 3, rule: 'avoidablePositionChange' })
+    expect(out.issues[0].message).toMatch(/F4/)
+    expect(out.issues).toContainEqual(expect.objectContaining({ index: 7, rule: 'fourFiveAlternation' }))
+    const fine = engine('check', JSON.stringify({ hand: 'left', notes: ['C3', 'D3', 'E3', 'F3', 'G3'], fingers: [5, 4, 3, 2, 1] }))
+    expect(JSON.parse(fine.stdout)).toEqual({ issues: [] })
+  })
+
   it.each([
+    ['check', '{"hand":"right","notes":["C4","D4"],"fingers":[1]}', /one entry per note/],
+    ['check', '{"hand":"right","notes":["C4"],"fingers":[6]}', /fingers/],
     ['suggest', 'not json', /not JSON/],
     ['suggest', '{"hand":"middle","notes":["C4"]}', /hand/],
     ['suggest', '{"hand":"right","notes":["H4"]}', /"H4" is not a pitch[\s\S]*notes\[0\]/],

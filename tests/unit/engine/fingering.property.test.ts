@@ -1,5 +1,6 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
+import { arpeggioPassReach } from '../../../shared/engine/ergonomics'
 import { inferFingering } from '../../../shared/engine/infer'
 import { MAX_PRAC, MIN_PRAC, pairSpan, spanTable, type SpanRow } from '../../../shared/engine/spans'
 import { suggestFingering } from '../../../shared/engine/suggest'
@@ -16,12 +17,16 @@ const line = fc.tuple(fc.integer({ min: 30, max: 90 }), fc.array(fc.integer({ mi
 /** Right-hand space, as the model sees a line: the left hand mirrored around D4 (see touches.ts). */
 const rhKey = (hand: Hand, midi: number): number => (hand === 'left' ? 124 - midi : midi)
 
-/** Legato-playable: a repeated key (with any finger), or different fingers within the practical span. */
+/**
+ * Legato-playable: a repeated key (with any finger), different fingers within the practical span, or
+ * an arpeggio's thumb passing (the separate rule beside the published spans, ergonomics.ts).
+ */
 function playable(table: SpanRow[][], fa: Finger, ka: number, fb: Finger, kb: number): boolean {
   if (ka === kb) return true
   if (fa === fb) return false
   const { row, s } = pairSpan(table, fa, ka, fb, kb)
-  return s >= row[MIN_PRAC] && s <= row[MAX_PRAC]
+  const thumbPassing = (fa === 1 || fb === 1) && s < 0 && -s <= arpeggioPassReach(fa === 1 ? fb : fa)
+  return thumbPassing || (s >= row[MIN_PRAC] && s <= row[MAX_PRAC])
 }
 
 /** Whether any fingering plays the line legato, found by a reachability sweep independent of the search. */
