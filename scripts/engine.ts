@@ -2,9 +2,9 @@
 // on standard input and writes one on standard output, for scripts, benchmarks and checks.
 // Bad input exits with 2 and a message on standard error; stdout then stays empty.
 import { z } from 'zod'
-import { checkFingering, gradeAttempt, PitchError, suggestFingering, toMidi } from '../shared/engine'
+import { checkFingering, gradeAttempt, PitchError, suggestFingering, suggestHands, toMidi } from '../shared/engine'
 import { PlayedEvent } from '../shared/types/attempt'
-import { DrillMusic, Finger, Hand, HandSize } from '../shared/types/drill'
+import { DrillHand, DrillMusic, Finger, Hand, HandSize } from '../shared/types/drill'
 import { TEMPO_LIMITS } from '../shared/utils/tempo'
 
 const PitchValue = z.union([z.number(), z.string()])
@@ -22,7 +22,8 @@ const LineItemInput = z.union([PitchValue, z.array(PitchValue).min(1).max(10)]).
 })
 
 const SuggestRequest = z.object({
-  hand: Hand,
+  // "both": a hand for every note as well as its finger (suggestHands).
+  hand: DrillHand,
   notes: z.array(LineItemInput).min(1).max(5000),
   handSize: HandSize.optional(),
 })
@@ -66,8 +67,12 @@ function run(command: string | undefined, input: string): unknown {
     throw new InputError(`Standard input is not JSON: ${error instanceof Error ? error.message : String(error)}`)
   }
   if (command === 'suggest') {
-    const request = validate(SuggestRequest, data)
-    const result = suggestFingering(request)
+    const { hand, ...request } = validate(SuggestRequest, data)
+    if (hand === 'both') {
+      const result = suggestHands(request)
+      return { hands: result.hands, fingers: result.fingers, positionChanges: result.positionChanges, positions: result.positions, cost: result.cost }
+    }
+    const result = suggestFingering({ hand, ...request })
     return { fingers: result.fingers, positionChanges: result.positionChanges, positions: result.positions, cost: result.cost }
   }
   if (command === 'check') {

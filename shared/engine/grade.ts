@@ -15,7 +15,7 @@
 //   carried a velocity (on-screen keys), loudness drops out and the other weights are rescaled.
 import { alignmentSides, alignSides, type Alignment } from './align'
 import { positionStarts } from './positions'
-import { noteHand } from './hands'
+import { drillNoteHands } from './hands'
 import { inferFingering, type PerformedNote } from './infer'
 import { pairNoteEvents, type PlayedNote } from './performance'
 import { midiFromName } from './pitch'
@@ -24,7 +24,7 @@ import { suggestFingering } from './suggest'
 import type { DrillMusic, Finger, GradeOptions, GradeResult, Hand, LineItem, PlayedEvent } from './types'
 
 /** Stored with every attempt, so grades from an older engine can be told apart and recomputed. */
-export const ENGINE_VERSION = '1.1.0'
+export const ENGINE_VERSION = '1.2.0'
 
 type Part = keyof GradeResult['scoreParts']
 
@@ -51,9 +51,10 @@ interface Target {
 }
 
 function targetsOf(drill: DrillMusic): Target[] {
+  const hands = drillNoteHands(drill)
   return drill.notes.map((note, index) => {
     const midi = midiFromName(note.pitch)
-    return { index, midi, beat: note.beat, hand: noteHand(drill.hand, note, midi), finger: note.finger ?? null }
+    return { index, midi, beat: note.beat, hand: hands[index]!, finger: note.finger ?? null }
   })
 }
 

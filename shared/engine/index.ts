@@ -10,6 +10,7 @@ export { EXPORT_PPQ, exportAttemptSmf, exportDrillSmf, importSmf, type AttemptEx
 export { importMusicXml, type MusicXmlImportOptions } from './musicxml'
 export { alignNotes, type Alignment } from './align'
 export { suggestFingering } from './suggest'
+export { drillNoteHands, suggestHands, type HandsInput, type HandsResult } from './hands'
 export { checkFingering, type CheckInput, type CheckRule, type FingeringIssue } from './check'
 export { positionStarts } from './positions'
 export { inferFingering, type InferResult, type PerformedNote } from './infer'

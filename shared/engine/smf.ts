@@ -9,7 +9,7 @@
 // line and the seed run the engine under Node); its CommonJS build file exports `Midi` by name.
 import { Midi } from '@tonejs/midi/dist/Midi.js'
 import { ImportError, drillTempo, finishImport, roundBeat, DEFAULT_TEMPO_BPM } from './importing'
-import { noteHand } from './hands'
+import { drillNoteHands } from './hands'
 import { pairNoteEvents } from './performance'
 import { midiFromName, nameFromMidi, spellingForKey, type Spelling } from './pitch'
 import type { DrillMusic, DrillNote, Hand, ImportedDrill, PlayedEvent } from './types'
@@ -102,12 +102,13 @@ function newMidi(name: string, bpm: number): Midi {
 /** A drill as a MIDI file: one track per hand (right on channel 1, left on channel 2), at the drill's tempo. */
 export function exportDrillSmf(drill: DrillMusic, title = 'Evenhand drill'): Uint8Array {
   const midi = newMidi(title, drill.tempoBpm)
-  const hands: Hand[] = drill.hand === 'both' ? ['right', 'left'] : [drill.hand]
-  hands.forEach((hand, channel) => {
+  const tracks: Hand[] = drill.hand === 'both' ? ['right', 'left'] : [drill.hand]
+  const noteHands = drillNoteHands(drill)
+  tracks.forEach((hand, channel) => {
     const track = midi.addTrack()
     track.name = `${hand} hand`
     track.channel = channel
-    const own = drill.notes.map(n => ({ n, midi: midiFromName(n.pitch) })).filter(({ n, midi }) => noteHand(drill.hand, n, midi) === hand)
+    const own = drill.notes.map((n, i) => ({ n, i, midi: midiFromName(n.pitch) })).filter(({ i }) => noteHands[i] === hand)
     for (const { n, midi } of own.sort((a, b) => a.n.beat - b.n.beat)) {
       track.addNote({
         midi,

@@ -27,6 +27,16 @@ describe('scripts/engine.ts', () => {
     expect(out.positionChanges).toBe(out.positions.length)
   })
 
+  it('suggest with both hands: a hand and a finger for every note', () => {
+    const run = engine('suggest', JSON.stringify({ hand: 'both', notes: ['C4', 'C6', 'C4', 'C6', ['C3', 'E3', 'G3', 'C5', 'E5']] }))
+    expect(run.status).toBe(0)
+    const out = JSON.parse(run.stdout)
+    expect(Object.keys(out).sort()).toEqual(['cost', 'fingers', 'hands', 'positionChanges', 'positions'])
+    expect(out.hands).toEqual(['left', 'right', 'left', 'right', ['left', 'left', 'left', 'right', 'right']])
+    expect(out.fingers[4]).toHaveLength(5)
+    expect(out.positionChanges).toBe(out.positions.length)
+  })
+
   it('grade: returns the GradeResult for a drill and its events', () => {
     const drill = {
       hand: 'right',
