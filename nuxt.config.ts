@@ -31,7 +31,22 @@ export default defineNuxtConfig({
       host: '127.0.0.1',
       port: 2525,
       from: 'Evenhand <no-reply@evenhand.test>',
+      user: '',
+      password: '',
+      secure: false,
     },
+    mail: {
+      // Set by the start and test scripts while their local mail server runs: opens /dev/mail.
+      local: false,
+      // Where that local server stores its .eml files.
+      dir: '',
+      // How often the outbox worker looks for due messages; 0 turns the worker off in this instance.
+      pollMs: 2000,
+      retryBaseMs: 30_000,
+      retryMaxMs: 3_600_000,
+    },
+    // The address links in e-mails start with, e.g. https://studio.example.org.
+    appUrl: 'http://127.0.0.1:3000',
     public: {
       appName: 'Evenhand',
     },

@@ -12,6 +12,7 @@ cleanup() {
   trap - EXIT INT TERM
   [ -n "$SERVER_PID" ] && log "stopping the app"
   stop_app
+  stop_mail_server
   stop_mariadb
 }
 trap cleanup EXIT
@@ -28,6 +29,12 @@ export NUXT_DB_HOST=127.0.0.1 NUXT_DB_PORT="$DB_PORT" NUXT_DB_USER=evenhand NUXT
 (cd "$ROOT" && node_modules/.bin/tsx scripts/migrate.ts && node_modules/.bin/tsx scripts/seed.ts)
 ensure_build "$ROOT/.output"
 
+# With NUXT_SMTP_HOST set, mail goes to that provider; otherwise to the local mail server and /dev/mail.
+if [ -z "${NUXT_SMTP_HOST:-}" ]; then
+  start_mail_server "${SMTP_PORT:-2525}" "$DATA/mail"
+fi
+export NUXT_APP_URL="${NUXT_APP_URL:-http://$HOST:$PORT}"
+
 log "starting the app"
 HOST="$HOST" serve_app "$ROOT/.output" "$PORT"
 
@@ -38,6 +45,8 @@ cat >&2 <<MSG
   Demo accounts (password for all: evenhand-demo — for the demo only):
     teacher  teacher@evenhand.test
     student  student@evenhand.test
+
+  Mail the app sends is kept on this machine: read it at http://$HOST:$PORT/dev/mail
 
   Press Ctrl-C to stop the app and its MariaDB.
 

@@ -128,16 +128,22 @@ ensure_chromium() {
 }
 
 # serve_app OUT PORT [LOG]: the built server from OUT on 127.0.0.1:PORT, in the background; waits for /api/health.
+# Without LOG the server writes to this script's own stdout and stderr (inherited, so a log file the caller
+# redirected to is appended to, and a socket such as a supervisor's pipe works).
 SERVER_PID=""
 serve_app() {
-  local out="$1" port="$2" logfile="${3:-/dev/stderr}" host="${HOST:-127.0.0.1}"
+  local out="$1" port="$2" logfile="${3:-}" host="${HOST:-127.0.0.1}"
   # Something else answering there would pass the health check below in its place.
   ! wait_http "http://$host:$port/api/health" || die "port $port is already in use: stop what runs there or choose another port (PORT / TEST_PORT)"
-  HOST="$host" PORT="$port" NITRO_HOST="$host" NITRO_PORT="$port" node "$out/server/index.mjs" >"$logfile" 2>&1 &
+  if [ -n "$logfile" ]; then
+    HOST="$host" PORT="$port" NITRO_HOST="$host" NITRO_PORT="$port" node "$out/server/index.mjs" >"$logfile" 2>&1 &
+  else
+    HOST="$host" PORT="$port" NITRO_HOST="$host" NITRO_PORT="$port" node "$out/server/index.mjs" &
+  fi
   SERVER_PID=$!
   for _ in $(seq 1 150); do
     wait_http "http://$host:$port/api/health" && return
-    kill -0 "$SERVER_PID" 2>/dev/null || { [ -f "$logfile" ] && tail -30 "$logfile" >&2; die "the app stopped during start-up"; }
+    kill -0 "$SERVER_PID" 2>/dev/null || { [ -n "$logfile" ] && [ -f "$logfile" ] && tail -30 "$logfile" >&2; die "the app stopped during start-up"; }
     sleep 0.2
   done
   die "the app did not answer on port $port within 30 s"
@@ -151,6 +157,36 @@ stop_app() {
   SERVER_PID=""
 }
 
+# wait_port PORT: true once something accepts TCP connections on 127.0.0.1:PORT.
+wait_port() {
+  node -e "require('net').connect(+process.argv[1], '127.0.0.1').on('connect', () => process.exit(0)).on('error', () => process.exit(1))" "$1"
+}
+
+# start_mail_server PORT DIR: the local fake SMTP server (scripts/mail-server.ts) storing .eml files in DIR,
+# and the runtimeConfig that points the app at it and opens /dev/mail.
+MAIL_SERVER_PID=""
+start_mail_server() {
+  local port="$1" dir="$2"
+  ! wait_port "$port" || die "port $port is already in use: stop what runs there or choose another mail port (SMTP_PORT / SMTP_TEST_PORT)"
+  log "starting the local mail server on 127.0.0.1:$port (messages in ${dir#"$ROOT"/})"
+  (cd "$ROOT" && exec node --import tsx scripts/mail-server.ts "$port" "$dir") &
+  MAIL_SERVER_PID=$!
+  for _ in $(seq 1 100); do
+    wait_port "$port" && break
+    kill -0 "$MAIL_SERVER_PID" 2>/dev/null || die "the local mail server stopped during start-up"
+    sleep 0.1
+  done
+  export NUXT_SMTP_HOST=127.0.0.1 NUXT_SMTP_PORT="$port" NUXT_SMTP_USER="" NUXT_SMTP_PASSWORD="" NUXT_SMTP_SECURE=false
+  export NUXT_MAIL_LOCAL=1 NUXT_MAIL_DIR="$dir" EVENHAND_MAIL_SERVER_PID="$MAIL_SERVER_PID"
+}
+
+stop_mail_server() {
+  [ -n "$MAIL_SERVER_PID" ] || return 0
+  kill "$MAIL_SERVER_PID" 2>/dev/null || true
+  wait "$MAIL_SERVER_PID" 2>/dev/null || true
+  MAIL_SERVER_PID=""
+}
+
 # The test set-up shared by `npm test` and the browser benchmark: its own MariaDB (DB_TEST_PORT, default 3307)
 # with a fresh, migrated and seeded database, and the app built into .output-test served on TEST_PORT (3100).
 start_test_stack() {
@@ -161,6 +197,10 @@ start_test_stack() {
   (cd "$ROOT" && node_modules/.bin/tsx scripts/migrate.ts && node_modules/.bin/tsx scripts/seed.ts)
   ensure_build "$ROOT/.output-test" "$DATA/nuxt-test-build"
   export NUXT_SESSION_PASSWORD="evenhand-test-session-password-0123456789"
+  rm -rf "$DATA/mail-test"
+  start_mail_server "${SMTP_TEST_PORT:-2526}" "$DATA/mail-test"
+  # Quick rounds and short waits after a failure, so the outage tests see retries within seconds.
+  export NUXT_MAIL_POLL_MS=200 NUXT_MAIL_RETRY_BASE_MS=300 NUXT_MAIL_RETRY_MAX_MS=2000 NUXT_APP_URL="http://127.0.0.1:$port"
   HOST=127.0.0.1 serve_app "$ROOT/.output-test" "$port" "$DATA/test-server.log"
   export EVENHAND_TEST_URL="http://127.0.0.1:$port"
 }
@@ -168,6 +208,7 @@ start_test_stack() {
 stop_test_stack() {
   trap - EXIT INT TERM
   stop_app
+  stop_mail_server
   stop_mariadb
 }
 

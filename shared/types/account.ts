@@ -22,3 +22,12 @@ export const RegisterInput = z.object({
   password: Password,
 })
 export type RegisterInput = z.infer<typeof RegisterInput>
+
+/** A one-time token from an e-mailed link (43 URL-safe characters when we make it). */
+export const LinkToken = z.string({ error: 'The link is incomplete' }).trim().min(20, { error: 'The link is incomplete' }).max(100, { error: 'The link is not one of ours' })
+
+export const ForgotInput = z.object({ email: Email })
+export type ForgotInput = z.infer<typeof ForgotInput>
+
+export const ResetInput = z.object({ token: LinkToken, password: Password })
+export type ResetInput = z.infer<typeof ResetInput>
