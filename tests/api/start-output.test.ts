@@ -33,13 +33,17 @@ function serve(port: number, stdio: 'pipe' | number): ChildProcess {
   return child
 }
 
-async function health(port: number): Promise<number> {
+/** Polls `read` until it shows the script's "serving on PORT" line (written once its health check passed) or the script ends. */
+async function untilServing(port: number, read: () => string): Promise<string> {
   const end = Date.now() + 40_000
-  for (;;) {
-    const status = await fetch(`http://127.0.0.1:${port}/api/health`).then(r => r.status, () => 0)
-    if (status || Date.now() > end) return status
+  while (!read().includes(`serving on ${port}`) && child?.exitCode === null && Date.now() < end) {
     await new Promise(resolve => setTimeout(resolve, 200))
   }
+  return read()
+}
+
+async function health(port: number): Promise<number> {
+  return fetch(`http://127.0.0.1:${port}/api/health`).then(r => r.status, () => 0)
 }
 
 describe('the start script under a supervisor', () => {
@@ -49,10 +53,10 @@ describe('the start script under a supervisor', () => {
     let output = ''
     proc.stdout!.on('data', (chunk: Buffer) => (output += chunk))
     proc.stderr!.on('data', (chunk: Buffer) => (output += chunk))
-    expect(await health(port)).toBe(200)
-    await new Promise(resolve => setTimeout(resolve, 300))
+    await untilServing(port, () => output)
     expect(output).not.toMatch(/No such device|stopped during start-up/)
     expect(output).toContain(`serving on ${port}`)
+    expect(await health(port)).toBe(200)
     // Nitro's own start-up line comes from the server process, through the inherited socket.
     expect(output).toMatch(/Listening on/)
   }, 60_000)
@@ -64,9 +68,8 @@ describe('the start script under a supervisor', () => {
     const fd = openSync(file, 'a')
     serve(port, fd)
     closeSync(fd)
+    const log = await untilServing(port, () => readFileSync(file, 'utf8'))
     expect(await health(port)).toBe(200)
-    await new Promise(resolve => setTimeout(resolve, 300))
-    const log = readFileSync(file, 'utf8')
     expect(log.startsWith('earlier steps: install, migrate, build\n')).toBe(true)
     expect(log).toMatch(/Listening on/)
   }, 60_000)
