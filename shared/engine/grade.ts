@@ -105,7 +105,7 @@ function inferPerHand(targets: Target[], matched: (PlayedNote | null)[], handSiz
     if (mine.length === 0) continue
     const notes: PerformedNote[] = mine.map((t) => {
       const p = matched[t.index]!
-      return { midi: p.midi, onMs: p.onMs, offMs: p.offMs, velocity: p.velocity ?? NEUTRAL_VELOCITY }
+      return { midi: p.midi, onMs: p.onMs, offMs: p.offMs, velocity: p.velocity ?? NEUTRAL_VELOCITY, beat: t.beat }
     })
     const result = inferFingering(hand, notes, handSize)
     for (let k = 0; k < mine.length; k++) fingers[mine[k]!.index] = result.fingers[k]

@@ -1,47 +1,115 @@
 // The fingering a student probably used, from what they played: ergonomic prior plus timing and velocity evidence.
+//
+// The model. A hidden chain over the fingers of each note (second order, so rules over three notes
+// apply; chain.ts): the prior is the ergonomic cost of the fingering (Parncutt et al. 1997 and the
+// trade's rules, ergonomics.ts, under PERFORMANCE_WEIGHTS), as probability exp(−cost / TEMPERATURE);
+// the evidence is what each move between notes sounded like. Every move a fingering makes is one of
+// in position, a crossing (a thumb pass, or a reach beyond the comfortable span), the same finger on
+// another key, a repeated key, or a shift; a shift is the hand leaving the keys, either because no
+// legato fingering reaches, or because the fingers crept (a finger back on a key another finger held,
+// with no crossing between: tripleNoteMoves). Any move may also be a hand lift: the hand leaves the
+// keys and lands wherever the next notes want it, at LIFT_POINTS plus the note's own cost; a lift and
+// staying on the keys are summed as two ways to the same fingering (withEvidence).
+//
+// The evidence terms, per move: `detached`, a silence before the note beyond the player's own; `late`,
+// an onset later than the player's own beat; `connected`, keys overlapping or touching (which rules
+// out the same finger and a lift); and for the thumb, a note clearly louder than the rest. Each is a
+// soft degree between 0 and 1 and each move kind has its probability of showing it (P_DETACHED,
+// P_LATE), so the log-likelihood of a fingering's moves adds to its cost.
+//
+// The player's own articulation and tempo are learned from the attempt itself (timingOf): every step
+// is timed against the running median of the player's ms per beat (the drill's beats where known), so
+// silences and delays are shares of the step and read the same at 60 and at 160 bpm; the player's
+// usual silence (negative for legato's overlap) is the median over the attempt and their scatter the
+// lower side's median absolute deviation, which lifts cannot inflate. A silence counts only beyond
+// the larger of a share of the step and three of the player's spreads, so a détaché player's silences
+// are no lifts, and the same finger's need for a silence is only evidence for a player who would not
+// leave one anyway.
+//
+// Calibration: our own, against the simulated player in tests/unit/engine/support (player.ts
+// documents that model; `npm run bench` prints the recovery figures). The constants below are our
+// estimates, marked so; none is a published figure.
 import { cheapestPath, optionPosteriors, type Lattice } from './chain'
-import { costModel } from './costs'
+import { costModel, type CostModel } from './costs'
 import { PERFORMANCE_WEIGHTS } from './ergonomics'
 import { fitsPosition, touchPositionStarts } from './positions'
 import { CHORD_WINDOW_MS } from './align'
 import { chosenTouches, lineLattice, type LineLattice } from './lattice'
 import { pairSpan, MAX_PRAC, MIN_PRAC, type SpanRow } from './spans'
-import { median } from './stats'
 import { toRightHandSpace, type Touch } from './touches'
 import type { Finger, Hand, HandSize } from './types'
 
-export interface PerformedNote { midi: number, onMs: number, offMs: number | null, velocity: number }
+export interface PerformedNote {
+  midi: number
+  onMs: number
+  offMs: number | null
+  velocity: number
+  /** The drill beat the note was meant for, when known: the steps it is timed against (otherwise every step is one). */
+  beat?: number | null
+}
 export interface InferResult { fingers: { finger: Finger, confidence: number }[], positions: number[] }
 
 /**
  * Ergonomic points per unit of log-likelihood: a fingering's prior probability is proportional to
- * exp(−cost / TEMPERATURE). At 2, a thumb pass (about 8 points) is as unlikely a priori as evidence
- * four times stronger one way than the other can overturn (e^4 ≈ 55). Our own calibration.
+ * exp(−cost / TEMPERATURE). At 3, the five points a hand lift costs beyond a thumb-under in a scale
+ * are e^1.7 ≈ 5 to 1 a priori, which a clear lift in the timing (a silence and a delay, e^4 and more)
+ * overturns and a blurred one does not. Our own calibration, against the simulated player.
  */
-const TEMPERATURE = 2
+const TEMPERATURE = 3
 
-/** What a move between two notes asks of the hand, as far as timing can tell. */
+/**
+ * The price of lifting the hand to a new position, in ergonomic points: a little more than a thumb
+ * passing under (about 4 in a scale), so that where the timing is silent the hand is read as staying
+ * on the keys. Our calibration.
+ */
+const LIFT_POINTS = 6
+
+/** What a move into a note asks of the hand, as far as timing can tell. */
 type Move = 'inPosition' | 'crossing' | 'shift' | 'sameFinger' | 'repeat'
 
 /**
- * Probability that a move of each kind shows a gap beyond the player's usual articulation, and a late
- * onset. Our estimates (no published figures): a hand lift needs time in the air; a thumb passing
- * under keeps legato with at most a small delay; the same finger must leave one key before the next.
+ * Probability that a move of each kind shows a silence beyond the player's own articulation, and a
+ * late onset. Our estimates, from memory of how students play (no published figures): fingers over
+ * their keys keep the player's articulation and beat; a thumb passing under keeps legato, often with
+ * a small delay; a hand lift needs time in the air and usually costs time. For the same finger the
+ * silence depends on the player (SAME_FINGER_RELEASE).
  */
-const P_DETACHED: Readonly<Record<Move, number>> = { inPosition: 0.1, crossing: 0.2, shift: 0.75, sameFinger: 0.9, repeat: 0.9 }
-const P_LATE: Readonly<Record<Move, number>> = { inPosition: 0.1, crossing: 0.2, shift: 0.6, sameFinger: 0.5, repeat: 0.2 }
-/** One finger cannot hold a key and press another: overlapping or touching notes almost rule it out. */
+const P_DETACHED: Readonly<Record<Move, number>> = { inPosition: 0.03, crossing: 0.2, shift: 0.9, sameFinger: 0.9, repeat: 0.5 }
+const P_LATE: Readonly<Record<Move, number>> = { inPosition: 0.05, crossing: 0.4, shift: 0.6, sameFinger: 0.35, repeat: 0.3 }
+/**
+ * The same finger must leave one key before it presses the next: a silence of about a tenth of the
+ * step (from memory; our estimate). A player whose own articulation already leaves that much shows
+ * nothing more, so only the share of the silence the player would not leave anyway is evidence.
+ */
+const SAME_FINGER_RELEASE = 0.12
+const P_DETACHED_SAME_FINGER_ANYWAY = 0.15
+/** One finger cannot hold a key and press another, nor a hand leave the keys it holds: overlapping or touching notes almost rule both out. */
 const P_CONNECTED_SAME_FINGER = 0.02
 /** A heavy thumb: how often a note stands out in loudness when the thumb plays it, and otherwise. */
 const P_ACCENT_THUMB = 0.35
 const P_ACCENT_OTHER = 0.12
+/** MIDI velocity above the player's mean from which a note counts as accented: about a step between dynamics (from memory). */
+const ACCENT_VELOCITY = 10
 
-/** A gap more than this beyond the player's median gap counts as detached (soft edge of 10 ms). */
-const DETACHED_MS = 30
-/** A release this close to the next press (or overlapping it) counts as connected. */
+/**
+ * A silence counts as detached when it exceeds the player's median by this share of the step or by
+ * SPREADS of the player's own spreads, whichever is more, with a soft edge half a spread wide;
+ * lateness likewise. A spread is 1.4826 times the median absolute deviation (the usual robust estimate
+ * of a standard deviation), so a lift stands out from a player's scatter however loose their playing
+ * is, and a steady player's small hesitation does not count. The floors are our calibration against
+ * the simulated player.
+ */
+const DETACHED_SHARE = 0.12
+const LATE_SHARE = 0.07
+const SPREADS = 3
+const MAD_TO_SD = 1.4826
+/** The softness of both edges, at least: below this a single jitter would flip the reading. */
+const DETACHED_EDGE = 0.025
+const LATE_EDGE = 0.02
+/** A release this close to the next press (or overlapping it) counts as connected: no finger lifts off and on in less. */
 const CONNECTED_MS = 20
-/** An inter-onset interval this much longer than the median counts as late. */
-const LATE_RATIO = 0.25
+/** Steps to each side over which the player's local beat is taken (a running median, so that a lift or a drift in tempo does not move it). */
+const BEAT_WINDOW = 4
 
 const logistic = (x: number): number => 1 / (1 + Math.exp(-x))
 const finite = (v: number | null | undefined, fallback: number): number => (typeof v === 'number' && Number.isFinite(v) ? v : fallback)
@@ -49,7 +117,7 @@ const finite = (v: number | null | undefined, fallback: number): number => (type
 /** log P(observation) where the observation is "true" with soft degree `x` and the model says `p`. */
 const softLog = (x: number, p: number): number => Math.log(x * p + (1 - x) * (1 - p))
 
-interface Item { notes: number[], onMs: number, releaseMs: number | null }
+interface Item { notes: number[], onMs: number, releaseMs: number | null, beat: number | null }
 
 function groupChords(notes: PerformedNote[]): Item[] {
   const items: Item[] = []
@@ -57,7 +125,10 @@ function groupChords(notes: PerformedNote[]): Item[] {
     const on = finite(notes[i]!.onMs, 0)
     const last = items[items.length - 1]
     if (last && on - last.onMs <= CHORD_WINDOW_MS) last.notes.push(i)
-    else items.push({ notes: [i], onMs: on, releaseMs: null })
+    else {
+      const beat = notes[i]!.beat
+      items.push({ notes: [i], onMs: on, releaseMs: null, beat: typeof beat === 'number' && Number.isFinite(beat) ? beat : null })
+    }
   }
   for (const item of items) {
     // The chord is released when its last note is, and unknown when any note's release is.
@@ -83,7 +154,9 @@ function moveOf(table: SpanRow[][], from: Touch[], to: Touch[]): Move {
     const b = to[0]!
     const { row, s } = pairSpan(table, a.f, a.k, b.f, b.k)
     if (s < row[MIN_PRAC] || s > row[MAX_PRAC]) return 'shift'
+    // A pass of the thumb, or a reach beyond the comfortable span: the hand may stay on the keys, with a small delay.
     if ((a.f === 1 || b.f === 1) && s < 0) return 'crossing'
+    if (!fitsPosition(table, a, b)) return 'crossing'
   }
   return to.every(t => from.every(h => fitsPosition(table, h, t))) ? 'inPosition' : 'shift'
 }
@@ -119,30 +192,147 @@ function singleNoteMoves(table: SpanRow[][], interval: number): Uint8Array {
   return moves
 }
 
+/** The move (index into MOVES) over three single notes at [((fa − 1) · 5 + fb − 1) · 5 + fc − 1], for intervals d1 then d2. */
+const tripleMoveTables = new WeakMap<SpanRow[][], (Uint8Array | undefined)[]>()
+
+const IN_POSITION = MOVES.indexOf('inPosition')
+const SHIFT = MOVES.indexOf('shift')
+const REPEAT = MOVES.indexOf('repeat')
+
+/**
+ * The move into the third of three single notes. A pair alone cannot see a hand that crept along: the
+ * thumb on C, 2 on E, then the thumb on D is an easy pair (1 under 2) but a new hand position, since
+ * the thumb left C without a crossing (common practice: a drill marks it as a position change). So a
+ * move that fits the note before it is a shift when the note before that was in the same position and
+ * does not fit with it; after a crossing or a shift the hand is new, and only the pair counts.
+ */
+function tripleNoteMoves(table: SpanRow[][], d1: number, d2: number): Uint8Array {
+  let byIntervals = tripleMoveTables.get(table)
+  if (!byIntervals) {
+    byIntervals = new Array((2 * FARTHEST_MOVE + 1) ** 2)
+    tripleMoveTables.set(table, byIntervals)
+  }
+  const a = Math.max(-FARTHEST_MOVE, Math.min(FARTHEST_MOVE, d1))
+  const b = Math.max(-FARTHEST_MOVE, Math.min(FARTHEST_MOVE, d2))
+  const slot = (a + FARTHEST_MOVE) * (2 * FARTHEST_MOVE + 1) + b + FARTHEST_MOVE
+  let moves = byIntervals[slot]
+  if (!moves) {
+    moves = new Uint8Array(125)
+    const first = singleNoteMoves(table, a)
+    const second = singleNoteMoves(table, b)
+    for (const fa of FINGERS) {
+      for (const fb of FINGERS) {
+        for (const fc of FINGERS) {
+          let move = second[(fb - 1) * 5 + fc - 1]!
+          if (move === IN_POSITION && first[(fa - 1) * 5 + fb - 1] === IN_POSITION && !fitsPosition(table, { f: fa, k: 0 }, { f: fc, k: a + b })) move = SHIFT
+          moves[((fa - 1) * 5 + fb - 1) * 5 + fc - 1] = move
+        }
+      }
+    }
+    byIntervals[slot] = moves
+  }
+  return moves
+}
+
+/** The timing of the move into an item, each reading a soft degree between 0 and 1 (null where unknown). */
 interface Timing { detached: number | null, connected: number | null, late: number | null }
 
-function timingOf(items: Item[]): Timing[] {
-  const gaps: number[] = []
-  const iois: number[] = []
-  for (let i = 1; i < items.length; i++) {
-    const gap = gapBefore(items, i)
-    if (gap !== null) gaps.push(gap)
-    const ioi = items[i]!.onMs - items[i - 1]!.onMs
-    if (ioi > 0) iois.push(ioi)
+/** The median of `values[from, to)` without disturbing them, through `scratch`. */
+function medianOf(values: Float64Array, from: number, to: number, scratch: Float64Array): number | null {
+  // A window of a few values: sorting by insertion beats any selection.
+  let count = 0
+  for (let j = from; j < to; j++) {
+    const v = values[j]!
+    if (!Number.isFinite(v)) continue
+    let k = count++
+    while (k > 0 && scratch[k - 1]! > v) {
+      scratch[k] = scratch[k - 1]!
+      k--
+    }
+    scratch[k] = v
   }
-  const usualGap = median(gaps)
-  const usualIoi = median(iois)
-  const timings: Timing[] = new Array(items.length)
-  for (let i = 0; i < items.length; i++) {
-    const gap = i > 0 ? gapBefore(items, i) : null
-    const ioi = i > 0 ? items[i]!.onMs - items[i - 1]!.onMs : null
-    timings[i] = {
-      detached: gap === null || usualGap === null ? null : logistic((gap - usualGap - DETACHED_MS) / 10),
-      connected: gap === null ? null : logistic((CONNECTED_MS - gap) / 5),
-      late: ioi === null || !usualIoi ? null : logistic((ioi / usualIoi - 1 - LATE_RATIO) / 0.08),
+  if (count === 0) return null
+  const mid = count >> 1
+  return count % 2 ? scratch[mid]! : (scratch[mid - 1]! + scratch[mid]!) / 2
+}
+
+/**
+ * A robust centre and spread of the finite values: their median, and 1.4826 times the median distance
+ * below it of the values below it. Lifts only ever add silence and delay, so the spread is read from
+ * the lower side, which they cannot widen however many there are.
+ */
+function centreAndSpread(values: Float64Array): { centre: number, spread: number } | null {
+  let count = 0
+  const finiteValues = new Float64Array(values.length)
+  for (const v of values) if (Number.isFinite(v)) finiteValues[count++] = v
+  if (count === 0) return null
+  const sorted = finiteValues.subarray(0, count).sort()
+  const centre = sortedMedian(sorted)
+  const below = sorted.subarray(0, count >> 1)
+  if (below.length === 0) return { centre, spread: 0 }
+  for (let j = 0; j < below.length; j++) below[j] = centre - below[j]!
+  return { centre, spread: MAD_TO_SD * sortedMedian(below.sort()) }
+}
+
+function sortedMedian(sorted: Float64Array): number {
+  const mid = sorted.length >> 1
+  return sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2
+}
+
+/**
+ * The player's own articulation and beat, learned from the attempt, and each move's timing measured
+ * against them. Every step is timed against the player's local beat (the running median of their ms
+ * per beat over the neighbouring steps, beats from the drill where known), so a step's lateness and
+ * silence are shares of the step and mean the same at 60 and at 160 bpm. The player's usual silence
+ * (negative for legato's overlap) and the scatter of both are medians over the attempt, so a lift is
+ * read against the player's own articulation, legato or détaché.
+ */
+function timingOf(items: Item[]): { timings: Timing[], sameFingerDetached: number } {
+  const n = items.length
+  const withBeats = items.every(item => item.beat !== null)
+  // Ms per beat of the step into each item (NaN where unknown), then the step each item was due.
+  const rate = new Float64Array(n).fill(NaN)
+  const span = new Float64Array(n).fill(NaN)
+  for (let i = 1; i < n; i++) {
+    const beats = withBeats ? items[i]!.beat! - items[i - 1]!.beat! : 1
+    const ioi = items[i]!.onMs - items[i - 1]!.onMs
+    if (beats > 0 && ioi > 0) {
+      span[i] = beats
+      rate[i] = ioi / beats
     }
   }
-  return timings
+  const scratch = new Float64Array(2 * BEAT_WINDOW + 1)
+  const gaps = new Float64Array(n).fill(NaN)
+  const lateness = new Float64Array(n).fill(NaN)
+  for (let i = 1; i < n; i++) {
+    const local = medianOf(rate, Math.max(1, i - BEAT_WINDOW), Math.min(n, i + BEAT_WINDOW + 1), scratch)
+    if (local === null || !(local > 0) || !Number.isFinite(span[i]!)) continue
+    const due = local * span[i]!
+    lateness[i] = (items[i]!.onMs - items[i - 1]!.onMs) / due - 1
+    const gap = gapBefore(items, i)
+    if (gap !== null) gaps[i] = gap / due
+  }
+  const gapUsual = centreAndSpread(gaps)
+  const lateUsual = centreAndSpread(lateness)
+  const timings: Timing[] = new Array(n)
+  for (let i = 0; i < n; i++) {
+    const gapMs = i > 0 ? gapBefore(items, i) : null
+    const gap = gaps[i]!
+    const late = lateness[i]!
+    timings[i] = {
+      detached: gapUsual === null || !Number.isFinite(gap) ? null : edge(gap - gapUsual.centre, DETACHED_SHARE, gapUsual.spread, DETACHED_EDGE),
+      connected: gapMs === null ? null : logistic((CONNECTED_MS - gapMs) / 5),
+      late: lateUsual === null || !Number.isFinite(late) ? null : edge(late - lateUsual.centre, LATE_SHARE, lateUsual.spread, LATE_EDGE),
+    }
+  }
+  // A player who leaves less than the same finger's silence anyway shows it when one finger moves.
+  const needsGap = gapUsual === null ? 1 : logistic((SAME_FINGER_RELEASE - gapUsual.centre) / DETACHED_EDGE)
+  return { timings, sameFingerDetached: P_DETACHED_SAME_FINGER_ANYWAY + (P_DETACHED.sameFinger - P_DETACHED_SAME_FINGER_ANYWAY) * needsGap }
+}
+
+/** How far `excess` is beyond the larger of `share` and SPREADS spreads, as a soft degree. */
+function edge(excess: number, share: number, spread: number, softest: number): number {
+  return logistic((excess - Math.max(share, SPREADS * spread)) / Math.max(softest, spread / 2))
 }
 
 /** The silence between item i − 1's release and item i's onset, or null where that release is unknown. */
@@ -155,23 +345,23 @@ function accentsOf(notes: PerformedNote[]): number[] {
   const v = notes.map(n => finite(n.velocity, 64))
   const mean = v.reduce((a, b) => a + b, 0) / Math.max(1, v.length)
   const sd = Math.sqrt(v.reduce((a, b) => a + (b - mean) ** 2, 0) / Math.max(1, v.length))
-  // With (almost) no spread in loudness there is nothing to learn about a heavy thumb.
-  return v.map(x => (sd < 1 ? 0.5 : logistic(((x - mean) / sd - 0.5) / 0.25)))
+  // With (almost) no spread in loudness there is nothing to learn about a heavy thumb; and a note only
+  // stands out when it is clearly louder than the player's scatter, by ACCENT_VELOCITY at least.
+  return v.map(x => (sd < 1 ? 0.5 : logistic((x - mean - Math.max(ACCENT_VELOCITY, sd / 2)) / Math.max(2, sd / 4))))
 }
 
 /** The move probabilities in MOVES order, so that an item's moves are costed by index. */
-const DETACHED_BY_MOVE = MOVES.map(move => P_DETACHED[move])
 const LATE_BY_MOVE = MOVES.map(move => P_LATE[move])
 const SAME_FINGER = MOVES.indexOf('sameFinger')
 
-/** Each move's timing evidence for one item, in cost units (TEMPERATURE · log-likelihood), in MOVES order. */
-function moveCosts(t: Timing, out: Float64Array): void {
+/** Each move's timing evidence for one item, in cost units (−TEMPERATURE · log-likelihood), in MOVES order. */
+function moveCosts(t: Timing, sameFingerDetached: number, out: Float64Array): void {
   for (let m = 0; m < MOVES.length; m++) {
     let ll = 0
-    if (t.detached !== null) ll += softLog(t.detached, DETACHED_BY_MOVE[m]!)
+    if (t.detached !== null) ll += softLog(t.detached, m === SAME_FINGER ? sameFingerDetached : P_DETACHED[MOVES[m]!])
     if (t.late !== null) ll += softLog(t.late, LATE_BY_MOVE[m]!)
-    if (t.connected !== null && m === SAME_FINGER) ll += Math.log(t.connected * P_CONNECTED_SAME_FINGER + (1 - t.connected))
-    out[m] = TEMPERATURE * ll
+    if (t.connected !== null && (m === SAME_FINGER || m === SHIFT)) ll += Math.log(t.connected * P_CONNECTED_SAME_FINGER + (1 - t.connected))
+    out[m] = -TEMPERATURE * ll
   }
 }
 
@@ -197,10 +387,20 @@ function thumbEvidence(base: LineLattice, item: Item, i: number, noteKeys: numbe
 
 /**
  * The ergonomic lattice with the evidence added to each option, in cost units. Every table is built
- * once here, since the search and both passes of the posteriors read each of them.
+ * once here, since the search and both passes of the posteriors read each of them. Between two single
+ * notes the move is one of two: the hand stays on the keys (the pair's ergonomic cost plus the timing's
+ * evidence for the move that fingering makes), or it lifts (LIFT_POINTS plus the note's own cost,
+ * whatever the fingers before, plus the timing's evidence for a lift); the two are summed as
+ * probabilities. A lifted hand is free, so after a clear lift the notes that follow choose the fingers.
+ *
+ * Over three single notes a fingering may creep (see tripleNoteMoves), a shift the pair cannot see.
+ * Where neither this move nor the one before may well be a lift, which is most moves, a creep is
+ * simply as dear as a shift heard in plain timing (CREEP_POINTS) and the triple tables stay shared;
+ * around a likely lift the item gets a triple table of its own: the creep read from its timing, and
+ * the rules over three notes weighed by the chance that the hand stayed on the keys before.
  */
-function withEvidence(base: LineLattice, table: SpanRow[][], items: Item[], noteKeys: number[], accents: number[]): Lattice {
-  const timings = timingOf(items)
+function withEvidence(base: LineLattice, model: CostModel, items: Item[], noteKeys: number[], accents: number[]): Lattice {
+  const { timings, sameFingerDetached } = timingOf(items)
   let most = 0
   for (let i = 0; i < items.length; i++) most = Math.max(most, base.sizes[i]!)
   const velocity = new Float64Array(most)
@@ -211,28 +411,114 @@ function withEvidence(base: LineLattice, table: SpanRow[][], items: Item[], note
   for (let o = 0; o < first.length; o++) first[o] = baseFirst[o]! + velocity[o]!
   // Every item's pair table is a view into one buffer: a typed array of more than a few numbers is
   // allocated outside the heap, which would cost more per item than filling it.
+  const single = (i: number): boolean => base.keys[i]!.length === 1
   let size = 0
   for (let i = 1; i < items.length; i++) size += base.sizes[i - 1]! * base.sizes[i]!
   const buffer = new Float64Array(size)
   let offset = 0
   const pairs: Float64Array[] = new Array(items.length)
+  const triples: (ArrayLike<number> | null)[] = new Array(items.length).fill(null)
   const moveCost = new Float64Array(MOVES.length)
+  const lifted = new Float64Array(5)
+  // The chance that the move into the item before was a lift, judged from its timing alone.
+  let liftBefore = 0
+  // The same, as the timing alone tells it (even odds before): how far the note before that still says where the hand is.
+  let heardBefore = 0
   for (let i = 1; i < items.length; i++) {
     thumbEvidence(base, items[i]!, i, noteKeys, accents, velocity)
-    moveCosts(timings[i]!, moveCost)
+    moveCosts(timings[i]!, sameFingerDetached, moveCost)
     const costs = buffer.subarray(offset, offset + base.sizes[i - 1]! * base.sizes[i]!)
     offset += costs.length
-    pairCosts(base, table, i, velocity, moveCost, costs)
+    const pairOfSingles = single(i - 1) && single(i)
+    if (pairOfSingles) {
+      const own = model.first(base.keys[i]![0]!)
+      for (let c = 0; c < 5; c++) lifted[c] = LIFT_POINTS + own[c]! + moveCost[SHIFT]!
+    }
+    pairCosts(base, model.table, i, velocity, moveCost, lifted, costs)
     pairs[i] = costs
+    const lift = liftChance(moveCost)
+    if (pairOfSingles && i >= 2 && single(i - 2)) {
+      const ka = base.keys[i - 2]![0]!
+      const kb = base.keys[i - 1]![0]!
+      const d1 = kb - ka
+      const d2 = base.keys[i]![0]! - kb
+      triples[i] = lift < QUIET && liftBefore < QUIET
+        ? creepTriple(model, ka, d1, d2)
+        : liftTriple(base.triple(i)!, tripleNoteMoves(model.table, d1, d2), costs, velocity, lifted, 1 - heardBefore)
+    }
+    liftBefore = lift
+    heardBefore = liftChance(moveCost, 0.5)
   }
-  return { sizes: base.sizes, first: () => first, pair: i => pairs[i]!, triple: i => base.triple(i) }
+  return { sizes: base.sizes, first: () => first, pair: i => pairs[i]!, triple: i => triples[i] ?? base.triple(i) }
+}
+
+/** A move whose timing gives a lift less than this chance is read as the hand staying on the keys. */
+const QUIET = 0.02
+
+/** Lifts are rare (our estimate: one move in ten): the chance of one given the move's timing alone. */
+const LIFT_PRIOR = 0.1
+
+function liftChance(moveCost: Float64Array, prior = LIFT_PRIOR): number {
+  const odds = Math.exp((moveCost[IN_POSITION]! - moveCost[SHIFT]!) / TEMPERATURE) * prior / (1 - prior)
+  return odds / (1 + odds)
+}
+
+/** −TEMPERATURE · log(e^(−x / TEMPERATURE) + e^(−y / TEMPERATURE)): two ways to the same outcome, as one cost. */
+function either(x: number, y: number): number {
+  const low = x < y ? x : y
+  const apart = (x < y ? y - x : x - y) / TEMPERATURE
+  // Beyond nine temperatures apart the dearer way adds less than e^−9 of a temperature.
+  return apart > 9 ? low : low - TEMPERATURE * Math.log1p(Math.exp(-apart))
+}
+
+/** How much dearer a shift is than a move in position when the timing is plain (no silence, no delay). */
+const CREEP_POINTS = (() => {
+  const plain = new Float64Array(MOVES.length)
+  moveCosts({ detached: 0, late: 0, connected: null }, P_DETACHED.sameFinger, plain)
+  return plain[SHIFT]! - plain[IN_POSITION]!
+})()
+
+const creepTables = new WeakMap<CostModel, Map<number, Float64Array>>()
+
+const clampMove = (d: number): number => Math.max(-FARTHEST_MOVE, Math.min(FARTHEST_MOVE, d))
+
+/** The model's triple table with CREEP_POINTS on every creeping fingering, shared by every quiet move over the same keys. */
+function creepTriple(model: CostModel, ka: number, d1: number, d2: number): Float64Array {
+  let tables = creepTables.get(model)
+  if (!tables) creepTables.set(model, tables = new Map())
+  const key = ((((ka % 12) + 12) % 12) * 257 + clampMove(d1) + 128) * 257 + clampMove(d2) + 128
+  let table = tables.get(key)
+  if (!table) {
+    const baseTriple = model.triple(ka, ka + d1, ka + d1 + d2)
+    const moves = tripleNoteMoves(model.table, d1, d2)
+    const pairMoves = singleNoteMoves(model.table, d2)
+    table = new Float64Array(125)
+    for (let j = 0; j < 125; j++) table[j] = baseTriple[j]! + (moves[j] === SHIFT && pairMoves[j % 25] !== SHIFT ? CREEP_POINTS : 0)
+    tables.set(key, table)
+  }
+  return table
+}
+
+/**
+ * The triple table of a move near a likely lift: the rules over three notes weighed by `held`, the
+ * chance the hand stayed on the keys before; and a creeping fingering read as a lift (its pair cost,
+ * in `pair`, replaced by the lift's) unless the move before was likely a lift itself, after which the
+ * note before that says nothing of the hand.
+ */
+function liftTriple(baseTriple: ArrayLike<number>, moves: Uint8Array, pair: Float64Array, velocity: Float64Array, lifted: Float64Array, held: number): Float64Array {
+  const costs = new Float64Array(125)
+  for (let j = 0; j < 125; j++) {
+    const c = j % 5
+    costs[j] = held * (baseTriple[j]! + (moves[j] === SHIFT ? velocity[c]! + lifted[c]! - pair[j % 25]! : 0))
+  }
+  return costs
 }
 
 /**
  * Writes item i's pair costs with its velocity and move evidence added to `costs`. A function of its
  * own, called once per item, so that the engine optimises this work within the first attempt graded.
  */
-function pairCosts(base: LineLattice, table: SpanRow[][], i: number, velocity: Float64Array, moveCost: Float64Array, costs: Float64Array): void {
+function pairCosts(base: LineLattice, table: SpanRow[][], i: number, velocity: Float64Array, moveCost: Float64Array, lifted: Float64Array, costs: Float64Array): void {
   const basePair = base.pair(i)
   const sb = base.sizes[i - 1]!
   const sc = base.sizes[i]!
@@ -243,7 +529,9 @@ function pairCosts(base: LineLattice, table: SpanRow[][], i: number, velocity: F
     for (let b = 0; b < sb; b++) {
       for (let c = 0; c < sc; c++) {
         const j = b * sc + c
-        costs[j] = basePair[j]! + velocity[c]! - moveCost[moves[j]!]!
+        const move = moves[j]!
+        const stay = basePair[j]! + moveCost[move]!
+        costs[j] = velocity[c]! + (move === SHIFT ? lifted[c]! : move === IN_POSITION || move === REPEAT ? stay : either(stay, lifted[c]!))
       }
     }
     return
@@ -253,7 +541,7 @@ function pairCosts(base: LineLattice, table: SpanRow[][], i: number, velocity: F
   for (let b = 0; b < sb; b++) {
     for (let c = 0; c < sc; c++) {
       const move = MOVES.indexOf(moveOf(table, from[b]!, to[c]!))
-      costs[b * sc + c] = basePair[b * sc + c]! + velocity[c]! - moveCost[move]!
+      costs[b * sc + c] = basePair[b * sc + c]! + velocity[c]! + moveCost[move]!
     }
   }
 }
@@ -271,7 +559,7 @@ export function inferFingering(hand: Hand, notes: PerformedNote[], handSize: Han
   const keys = items.map(item => item.notes.length === 1 ? [noteKeys[item.notes[0]!]!] : [...new Set(item.notes.map(n => noteKeys[n]!))].sort((a, b) => a - b))
   const model = costModel(handSize, PERFORMANCE_WEIGHTS)
   const base = lineLattice(keys, model)
-  const lattice = withEvidence(base, model.table, items, noteKeys, accentsOf(notes))
+  const lattice = withEvidence(base, model, items, noteKeys, accentsOf(notes))
   const { path } = cheapestPath(lattice)
   const posteriors = optionPosteriors(lattice, TEMPERATURE)
   const chosen = chosenTouches(base, path)

@@ -101,6 +101,7 @@ export function perform(figure: Figure, options: PlayOptions): Performance {
   for (let i = 1; i < n; i++) moves.push(moveInto(figure, i))
   const onsets: number[] = []
   const steps: number[] = []
+  const beats: number[] = []
   // Where the note would fall with the tempo's drift and every delay so far, before its own jitter.
   let clock = 0
   for (let i = 0; i < n; i++) {
@@ -111,6 +112,7 @@ export function perform(figure: Figure, options: PlayOptions): Performance {
     if (moves[i] === 'crossing') clock += uniform(random, 0, 0.06) * before
     if (moves[i] === 'sameFinger' && options.articulation === 'legato') clock += uniform(random, 0, 0.08) * before
     onsets.push(clock + Math.max(4, 0.025 * before) * gaussian(random))
+    beats.push(i === 0 ? 0 : beats[i - 1]! + lengths[i - 1]!)
     clock += step
   }
   const notes: PerformedNote[] = []
@@ -127,7 +129,7 @@ export function perform(figure: Figure, options: PlayOptions): Performance {
     off += 0.03 * step * gaussian(random)
     // A key is released after it is pressed, whatever the jitter says.
     off = Math.max(off, onsets[i]! + 0.1 * step)
-    notes.push({ midi: figure.midi[i]!, onMs: onsets[i]!, offMs: off, velocity: Math.round(64 + 6 * gaussian(random)) })
+    notes.push({ midi: figure.midi[i]!, onMs: onsets[i]!, offMs: off, velocity: Math.round(64 + 6 * gaussian(random)), beat: beats[i]! })
   }
   const positions: number[] = []
   for (let i = 1; i < n; i++) if (moves[i] !== 'inPosition') positions.push(i)
