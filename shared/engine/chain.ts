@@ -149,21 +149,17 @@ const tripleWeightCache = new WeakMap<ArrayLike<number>, TripleWeights>()
 function tripleWeights(triple: ArrayLike<number>, temperature: number): TripleWeights {
   const cached = tripleWeightCache.get(triple)
   if (cached && cached.temperature === temperature) return cached
-  const made = weightsOf(triple, temperature, new Float64Array(triple.length))
-  tripleWeightCache.set(triple, made)
-  return made
-}
-
-/** A triple table's weights written into `weights` (see tripleWeights). */
-function weightsOf(triple: ArrayLike<number>, temperature: number, weights: Float64Array): TripleWeights {
   let least = Infinity
   let most = -Infinity
   for (let j = 0; j < triple.length; j++) {
     least = Math.min(least, triple[j]!)
     most = Math.max(most, triple[j]!)
   }
+  const weights = new Float64Array(triple.length)
   for (let j = 0; j < triple.length; j++) weights[j] = Math.exp(-(triple[j]! - least) / temperature)
-  return { temperature, shift: least / temperature, span: (most - least) / temperature, weights }
+  const made = { temperature, shift: least / temperature, span: (most - least) / temperature, weights }
+  tripleWeightCache.set(triple, made)
+  return made
 }
 
 /**

@@ -54,12 +54,11 @@ export const LEGATO_WEIGHTS: RuleWeights = {
 }
 
 /**
- * Weights for what a student may actually have done: a hand may leave the keys, so a leap is merely
- * dear (about a thumb-under), and the timing evidence in infer.ts decides whether it happened. The
- * same finger on two keys in a row is dearer (about two leaps): even a détaché player rarely does it
- * in a drill, so without a silence that says so it is not read into the playing (common practice).
+ * Weights for what a student may actually have done: a hand may leave the keys, so a leap or a
+ * same-finger move is merely dear (about two thumb-unders), and the timing evidence in infer.ts
+ * decides whether it happened.
  */
-export const PERFORMANCE_WEIGHTS: RuleWeights = { ...LEGATO_WEIGHTS, sameFinger: 10, beyondReach: 5 }
+export const PERFORMANCE_WEIGHTS: RuleWeights = { ...LEGATO_WEIGHTS, sameFinger: 5, beyondReach: 5 }
 
 /**
  * Points for a thumb crossing by the finger it crosses with (common practice: the thumb passes

@@ -24,7 +24,7 @@ import { suggestFingering } from './suggest'
 import type { DrillMusic, Finger, GradeOptions, GradeResult, Hand, LineItem, PlayedEvent } from './types'
 
 /** Stored with every attempt, so grades from an older engine can be told apart and recomputed. */
-export const ENGINE_VERSION = '1.2.0'
+export const ENGINE_VERSION = '1.3.0'
 
 type Part = keyof GradeResult['scoreParts']
 

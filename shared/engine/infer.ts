@@ -2,7 +2,7 @@
 //
 // The model. A hidden chain over the fingers of each note (second order, so rules over three notes
 // apply; chain.ts): the prior is the ergonomic cost of the fingering (Parncutt et al. 1997 and the
-// trade's rules, ergonomics.ts, under PERFORMANCE_WEIGHTS), as probability exp(−cost / TEMPERATURE);
+// trade's rules, ergonomics.ts, under INFERENCE_WEIGHTS), as probability exp(−cost / TEMPERATURE);
 // the evidence is what each move between notes sounded like. Every move a fingering makes is one of
 // in position, a crossing (a thumb pass, or a reach beyond the comfortable span), the same finger on
 // another key, a repeated key, or a shift; a shift is the hand leaving the keys, either because no
@@ -31,7 +31,7 @@
 // estimates, marked so; none is a published figure.
 import { cheapestPath, optionPosteriors, type Lattice } from './chain'
 import { costModel, type CostModel } from './costs'
-import { PERFORMANCE_WEIGHTS } from './ergonomics'
+import { PERFORMANCE_WEIGHTS, type RuleWeights } from './ergonomics'
 import { fitsPosition, touchPositionStarts } from './positions'
 import { CHORD_WINDOW_MS } from './align'
 import { chosenTouches, lineLattice, type LineLattice } from './lattice'
@@ -63,6 +63,13 @@ const TEMPERATURE = 3
  * on the keys. Our calibration.
  */
 const LIFT_POINTS = 6
+
+/**
+ * The performance weights, but the same finger on two keys in a row twice as dear (about two leaps):
+ * even a détaché player rarely does it in a drill, so without a silence that says so it is not read
+ * into the playing (common practice).
+ */
+const INFERENCE_WEIGHTS: RuleWeights = { ...PERFORMANCE_WEIGHTS, sameFinger: 2 * PERFORMANCE_WEIGHTS.sameFinger }
 
 /** What a move into a note asks of the hand, as far as timing can tell. */
 type Move = 'inPosition' | 'crossing' | 'shift' | 'sameFinger' | 'repeat'
@@ -557,7 +564,7 @@ export function inferFingering(hand: Hand, notes: PerformedNote[], handSize: Han
   const noteKeys = notes.map(n => toRightHandSpace(hand, n.midi))
   // Most items are single notes, which need no set of distinct keys.
   const keys = items.map(item => item.notes.length === 1 ? [noteKeys[item.notes[0]!]!] : [...new Set(item.notes.map(n => noteKeys[n]!))].sort((a, b) => a - b))
-  const model = costModel(handSize, PERFORMANCE_WEIGHTS)
+  const model = costModel(handSize, INFERENCE_WEIGHTS)
   const base = lineLattice(keys, model)
   const lattice = withEvidence(base, model, items, noteKeys, accentsOf(notes))
   const { path } = cheapestPath(lattice)
