@@ -20,6 +20,8 @@ export function knexConfig(connection: DbConnection, pool = { min: 0, max: 10 })
       dateStrings: false,
     },
     pool,
+    // A database that does not answer fails a request within seconds (a 503), instead of the default minute.
+    acquireConnectionTimeout: 10_000,
     migrations: {
       directory: './migrations',
       extension: 'ts',

@@ -47,6 +47,12 @@ export default defineNuxtConfig({
     },
     // The address links in e-mails start with, e.g. https://studio.example.org.
     appUrl: 'http://127.0.0.1:3000',
+    limits: {
+      // A 20,000-event attempt is about 1 MB of JSON.
+      bodyBytes: 2 * 1024 * 1024,
+      uploadBytes: 8 * 1024 * 1024,
+      retryAfterSeconds: 5,
+    },
     public: {
       appName: 'Evenhand',
     },

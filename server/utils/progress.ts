@@ -1,6 +1,7 @@
 import type { Knex } from 'knex'
 import type { H3Event } from 'h3'
 import { z } from 'zod'
+import { stringify } from 'csv-stringify/sync'
 
 export interface ProgressCell {
   attempts: number
@@ -63,12 +64,7 @@ export async function classProgress(db: Knex, classId: number, className: string
   return { classId, className, students, drills: [...drills.values()], cells }
 }
 
-function csvField(value: string | number | null): string {
-  const text = value === null ? '' : String(value)
-  return /[",\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text
-}
-
-/** One row per student and drill (RFC 4180 quoting), for a spreadsheet. */
+/** One row per student and drill, for a spreadsheet: RFC 4180 quoting, and text cells that a spreadsheet would read as a formula prefixed with '. */
 export function progressCsv(p: ClassProgress): string {
   const rows: (string | number | null)[][] = [['class', 'student', 'drill', 'attempts', 'best', 'latest', 'trend', 'overdue']]
   for (const s of p.students) {
@@ -77,7 +73,7 @@ export function progressCsv(p: ClassProgress): string {
       rows.push([p.className, s.name, d.title, c.attempts, c.best, c.latest, c.trend === null ? null : Math.round(c.trend), c.overdue ? 'yes' : 'no'])
     }
   }
-  return rows.map(r => r.map(csvField).join(',')).join('\r\n') + '\r\n'
+  return stringify(rows, { escape_formulas: true, record_delimiter: 'windows' })
 }
 
 const ClassParams = z.object({ id: z.coerce.number().int().positive() })

@@ -18,14 +18,8 @@ function check<S extends z.ZodType>(schema: S, value: unknown, what: string): z.
   return parsed.data
 }
 
-/** The largest body any route accepts: a 20,000-event attempt is about 1 MB of JSON. */
-const MAX_BODY_BYTES = 2 * 1024 * 1024
-
+/** The body was read and bounded by server/middleware/01.requests.ts before the route ran. */
 export async function validBody<S extends z.ZodType>(event: H3Event, schema: S): Promise<z.infer<S>> {
-  const length = Number(getRequestHeader(event, 'content-length') ?? 0)
-  if (length > MAX_BODY_BYTES) {
-    throw createError({ statusCode: 413, statusMessage: 'Payload too large', message: `body: larger than ${MAX_BODY_BYTES / 1024 / 1024} MB` })
-  }
   let body: unknown
   try {
     body = await readBody(event)

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { TEMPO_LIMITS } from '../utils/tempo'
+import { INT_UNSIGNED_MAX, RowId, StoredTimestamp } from './limits'
 
 /** One key press or release as captured from MIDI or the on-screen keys; times in ms from the attempt's start. */
 export const PlayedEvent = z.object({
@@ -24,10 +25,10 @@ export type InputDevice = z.infer<typeof InputDevice>
 export const AttemptInput = z.object({
   /** Chosen by the client so that sending the same attempt twice stores it once. */
   id: z.uuid(),
-  drillId: z.number().int().positive(),
-  drillVersion: z.number().int().positive(),
-  assignmentId: z.number().int().positive().nullable().optional(),
-  startedAt: z.iso.datetime({ offset: true }),
+  drillId: RowId,
+  drillVersion: z.number().int().positive().max(INT_UNSIGNED_MAX),
+  assignmentId: RowId.nullable().optional(),
+  startedAt: StoredTimestamp,
   tempoBpm: z.number().min(TEMPO_LIMITS.min).max(TEMPO_LIMITS.max),
   inputDevice: InputDevice,
   deviceName: z.string().trim().max(200).optional(),

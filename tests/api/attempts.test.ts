@@ -1,46 +1,22 @@
 import { randomUUID } from 'node:crypto'
-import { Note } from 'tonal'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { DrillNote } from '../../shared/types/drill'
-import type { PlayedEvent } from '../../shared/types/attempt'
 import { Client, closeTestDb, testDb } from '../support/server'
+import { attemptBody as attemptFor, scaleDrill } from '../support/attempts'
+import type { DrillReply } from '../support/attempts'
 
 afterAll(closeTestDb)
 
-interface DrillReply { drill: { id: number, version: number, tempoBpm: number, notes: DrillNote[] }, targets: { assignmentId: number, targetTempoBpm: number | null }[] }
 interface AttemptReply { attempt: { id: string, score: number, studentId: number, result: { accuracy: { correct: number, missed: number } } } }
-
-/** An even, exact performance of a drill at a tempo. */
-function play(notes: DrillNote[], bpm: number): PlayedEvent[] {
-  const beatMs = 60_000 / bpm
-  return notes.flatMap(n => [
-    { note: Note.midi(n.pitch)!, on: true, velocity: 70, timeMs: n.beat * beatMs },
-    { note: Note.midi(n.pitch)!, on: false, timeMs: (n.beat + n.length * 0.95) * beatMs },
-  ]).sort((a, b) => a.timeMs - b.timeMs)
-}
 
 let noor: Client
 let drill: DrillReply
 beforeAll(async () => {
   noor = await new Client().signIn('student@evenhand.test')
-  const teacher = await new Client().signIn('teacher@evenhand.test')
-  const list = await teacher.get<{ drills: { id: number, title: string }[] }>('/api/drills')
-  const id = list.body.drills.find(d => d.title === 'C major scale, right hand')!.id
-  drill = (await noor.get<DrillReply>(`/api/drills/${id}`)).body
+  drill = await scaleDrill(noor)
 })
 
 function attemptBody(id = randomUUID()): Record<string, unknown> {
-  return {
-    id,
-    drillId: drill.drill.id,
-    drillVersion: drill.drill.version,
-    assignmentId: drill.targets[0]?.assignmentId ?? null,
-    startedAt: new Date().toISOString(),
-    tempoBpm: 72,
-    inputDevice: 'midi',
-    deviceName: 'Test keyboard',
-    events: play(drill.drill.notes, 72),
-  }
+  return attemptFor(drill, { id })
 }
 
 describe('POST /api/attempts', () => {

@@ -22,10 +22,11 @@ export interface Reply<T = unknown> {
 export class Client {
   private cookie = ''
 
-  async request<T = Record<string, unknown>>(method: string, path: string, body?: unknown, raw?: string): Promise<Reply<T>> {
+  async request<T = Record<string, unknown>>(method: string, path: string, body?: unknown, raw?: string, extraHeaders: Record<string, string> = {}): Promise<Reply<T>> {
     const headers: Record<string, string> = { accept: 'application/json' }
     if (this.cookie) headers.cookie = this.cookie
     if (body !== undefined || raw !== undefined) headers['content-type'] = 'application/json'
+    Object.assign(headers, extraHeaders)
     const res = await fetch(baseUrl() + path, { method, headers, body: raw ?? (body === undefined ? undefined : JSON.stringify(body)) })
     const setCookie = res.headers.getSetCookie().map(c => c.split(';')[0]!).filter(Boolean)
     if (setCookie.length) this.cookie = setCookie.join('; ')
@@ -36,6 +37,11 @@ export class Client {
     }
     catch { /* not JSON: keep the text */ }
     return { status: res.status, body: parsed as T, headers: res.headers }
+  }
+
+  /** The session cookie as a browser would send it, for requests made by hand. */
+  get cookieHeader(): string {
+    return this.cookie
   }
 
   get<T = Record<string, unknown>>(path: string): Promise<Reply<T>> {

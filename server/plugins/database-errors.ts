@@ -1,0 +1,26 @@
+import type { H3Error } from 'h3'
+
+// A database that does not answer is a 503 the client may retry after a pause (the attempt outbox does);
+// any database error is logged by its code alone, since its message holds the statement and request data.
+export default defineNitroPlugin((nitroApp) => {
+  nitroApp.hooks.hook('error', (error, { event }) => {
+    const failure = databaseFailure(error)
+    if (!failure) return
+    const h3Error = error as H3Error
+    console.error(`[database] ${event ? `${event.method} ${routePath(event)}: ` : ''}${failure.summary}`)
+    h3Error.cause = undefined
+    h3Error.stack = undefined
+    h3Error.message = failure.unreachable ? 'The database is not answering; try again shortly' : 'The database refused the change'
+    if (failure.unreachable) {
+      h3Error.statusCode = 503
+      h3Error.statusMessage = 'Service unavailable'
+      h3Error.unhandled = false
+      if (event) setResponseHeader(event, 'retry-after', Number(useRuntimeConfig(event).limits.retryAfterSeconds))
+    }
+    else {
+      // Logged above by code; the default handler would print the whole error again.
+      h3Error.unhandled = false
+      h3Error.message = 'Server error'
+    }
+  })
+})

@@ -1,0 +1,99 @@
+// Every page under the content security policy, in chromium: any refused script, style, font, sample,
+// worker or connection shows as a console message and a securitypolicyviolation event, and fails the test.
+import { readdirSync, statSync } from 'node:fs'
+import { join, relative } from 'node:path'
+import { afterAll, describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { openBrowser, openStudentWithFakeMidi, signInAs } from '../support/browser'
+import type { BrowserSession } from '../support/browser'
+import { closeTestDb, testDb } from '../support/server'
+import { playDrill } from '../support/practice'
+import type { DrillNote } from '../../shared/types/drill'
+
+afterAll(closeTestDb)
+
+// Reported through a binding rather than read back with page.evaluate, which chromium counts as an eval.
+const RECORD_VIOLATIONS = `document.addEventListener('securitypolicyviolation',
+  e => window.__reportCsp(e.violatedDirective + ' ' + e.blockedURI + ' at ' + e.sourceFile + ':' + e.lineNumber));`
+const violations: string[] = []
+
+function pageFiles(dir = 'pages'): string[] {
+  return readdirSync(dir).flatMap((name) => {
+    const path = join(dir, name)
+    return statSync(path).isDirectory() ? pageFiles(path) : [relative('pages', path).replace(/\.vue$/, '')]
+  }).sort()
+}
+
+type Visit = (page: Page) => Promise<void>
+interface PageCase { who: 'anonymous' | 'teacher' | 'student', visit: Visit }
+
+async function id(query: Promise<{ id: unknown } | undefined>): Promise<string> {
+  return String((await query)!.id)
+}
+
+const goto = (path: () => Promise<string> | string): Visit => async (page) => {
+  await page.goto(await path())
+  await page.waitForLoadState('networkidle')
+}
+
+/** One entry per file under pages/: a page added without one fails the first test. */
+const PAGES: Record<string, PageCase> = {
+  'index': { who: 'anonymous', visit: goto(() => '/') },
+  'login': { who: 'anonymous', visit: goto(() => '/login') },
+  'signup': { who: 'anonymous', visit: goto(() => '/signup') },
+  'teacher/index': { who: 'teacher', visit: goto(() => '/teacher') },
+  'teacher/classes/[id]': { who: 'teacher', visit: goto(async () => `/teacher/classes/${await id(testDb()('classes').where({ name: 'Tuesday Starters' }).first('id'))}`) },
+  'attempts/[id]': { who: 'teacher', visit: goto(async () => `/attempts/${await id(testDb()('attempts').orderBy('started_at', 'desc').first('id'))}`) },
+  'student/index': { who: 'student', visit: goto(() => '/student') },
+  'settings': { who: 'student', visit: goto(() => '/settings') },
+  // Played through, so the samples, the metronome's worker and the save all run under the policy.
+  'practice/[id]': {
+    who: 'student',
+    visit: async (page) => {
+      const row = await testDb()('drills').where({ title: 'C major scale, right hand' }).first('id', 'notes')
+      const notes = (typeof row.notes === 'string' ? JSON.parse(row.notes) : row.notes) as DrillNote[]
+      await playDrill(page, { id: Number(row.id), notes })
+    },
+  },
+}
+
+const sessions = new Map<PageCase['who'], BrowserSession>()
+async function sessionFor(who: PageCase['who']): Promise<BrowserSession> {
+  if (!sessions.has(who)) {
+    const session = who === 'student' ? await openStudentWithFakeMidi([RECORD_VIOLATIONS]) : await openBrowser({ initScript: RECORD_VIOLATIONS })
+    if (who === 'teacher') {
+      await signInAs(session.page, 'teacher@evenhand.test')
+      await session.page.waitForURL(/\/teacher$/)
+    }
+    await session.context.exposeBinding('__reportCsp', (_source, text: string) => void violations.push(text))
+    sessions.set(who, session)
+  }
+  return sessions.get(who)!
+}
+afterAll(async () => {
+  for (const s of sessions.values()) await s.close()
+})
+
+describe('content security policy', () => {
+  it('has a case for every page', () => {
+    expect(pageFiles()).toEqual(Object.keys(PAGES).sort())
+  })
+
+  it.each(Object.entries(PAGES))('loads %s without a policy violation', async (_, { who, visit }) => {
+    const { page } = await sessionFor(who)
+    const messages: string[] = []
+    const listen = (m: { text: () => string }): void => {
+      if (/Content Security Policy|Refused to/i.test(m.text())) messages.push(m.text())
+    }
+    page.on('console', listen)
+    violations.length = 0
+    try {
+      await visit(page)
+      expect(await page.locator('script').count()).toBeGreaterThan(0)
+      expect({ violations, messages }).toEqual({ violations: [], messages: [] })
+    }
+    finally {
+      page.off('console', listen)
+    }
+  })
+})

@@ -1,0 +1,39 @@
+// Attempts as a student's browser would send them, for the API, fault and load tests.
+import { randomUUID } from 'node:crypto'
+import { Note } from 'tonal'
+import type { DrillNote } from '../../shared/types/drill'
+import type { PlayedEvent } from '../../shared/types/attempt'
+import type { Client } from './server'
+
+export interface DrillReply { drill: { id: number, version: number, tempoBpm: number, notes: DrillNote[] }, targets: { assignmentId: number, targetTempoBpm: number | null }[] }
+
+/** An even, exact performance of a drill at a tempo. */
+export function play(notes: DrillNote[], bpm: number): PlayedEvent[] {
+  const beatMs = 60_000 / bpm
+  return notes.flatMap(n => [
+    { note: Note.midi(n.pitch)!, on: true, velocity: 70, timeMs: n.beat * beatMs },
+    { note: Note.midi(n.pitch)!, on: false, timeMs: (n.beat + n.length * 0.95) * beatMs },
+  ]).sort((a, b) => a.timeMs - b.timeMs)
+}
+
+/** The drill a student practises in these tests: the demo's C major scale, with its assignment. */
+export async function scaleDrill(student: Client): Promise<DrillReply> {
+  const list = await student.get<{ drills: { id: number, title: string }[] }>('/api/drills')
+  const id = list.body.drills.find(d => d.title === 'C major scale, right hand')!.id
+  return (await student.get<DrillReply>(`/api/drills/${id}`)).body
+}
+
+export function attemptBody(drill: DrillReply, overrides: Record<string, unknown> = {}): Record<string, unknown> {
+  return {
+    id: randomUUID(),
+    drillId: drill.drill.id,
+    drillVersion: drill.drill.version,
+    assignmentId: drill.targets[0]?.assignmentId ?? null,
+    startedAt: new Date().toISOString(),
+    tempoBpm: 72,
+    inputDevice: 'midi',
+    deviceName: 'Test keyboard',
+    events: play(drill.drill.notes, 72),
+    ...overrides,
+  }
+}
