@@ -41,6 +41,8 @@ const PAGES: Record<string, PageCase> = {
   'index': { who: 'anonymous', visit: goto(() => '/') },
   'login': { who: 'anonymous', visit: goto(() => '/login') },
   'signup': { who: 'anonymous', visit: goto(() => '/signup') },
+  'forgot-password': { who: 'anonymous', visit: goto(() => '/forgot-password') },
+  'reset-password': { who: 'anonymous', visit: goto(() => '/reset-password?token=not-a-real-token') },
   'teacher/index': { who: 'teacher', visit: goto(() => '/teacher') },
   'teacher/classes/[id]': { who: 'teacher', visit: goto(async () => `/teacher/classes/${await id(testDb()('classes').where({ name: 'Tuesday Starters' }).first('id'))}`) },
   'attempts/[id]': { who: 'teacher', visit: goto(async () => `/attempts/${await id(testDb()('attempts').orderBy('started_at', 'desc').first('id'))}`) },
