@@ -4,22 +4,33 @@
 import { z } from 'zod'
 import { checkFingering, gradeAttempt, PitchError, suggestFingering, suggestHands, toMidi } from '../shared/engine'
 import { PlayedEvent } from '../shared/types/attempt'
-import { DrillHand, DrillMusic, Finger, Hand, HandSize } from '../shared/types/drill'
+import { DrillHand, DrillMusic, Emphasis, Finger, Hand, HandSize } from '../shared/types/drill'
 import { TEMPO_LIMITS } from '../shared/utils/tempo'
 
 const PitchValue = z.union([z.number(), z.string()])
 
 // Names and numbers are checked in one place after the shape, so the message says what is wrong
 // with this pitch (PitchError's wording) rather than that no union branch matched.
-const LineItemInput = z.union([PitchValue, z.array(PitchValue).min(1).max(10)]).transform((value, ctx) => {
+const PitchOrChord = z.union([PitchValue, z.array(PitchValue).min(1).max(10)])
+
+// A note is a pitch (or a chord's pitches), or an object that also says how it is meant to sound:
+// {"pitch": "F4", "emphasis": "soft"}.
+const LineItemInput = z.union([PitchOrChord, z.object({ pitch: PitchOrChord, emphasis: Emphasis.optional() })]).transform((value, ctx) => {
+  const pitch = typeof value === 'object' && !Array.isArray(value) ? value.pitch : value
+  const emphasis = typeof value === 'object' && !Array.isArray(value) ? value.emphasis ?? null : null
   try {
-    return Array.isArray(value) ? value.map(toMidi) : toMidi(value)
+    return { item: Array.isArray(pitch) ? pitch.map(toMidi) : toMidi(pitch), emphasis }
   }
   catch (error) {
     ctx.addIssue({ code: 'custom', message: error instanceof Error ? error.message : String(error) })
     return z.NEVER
   }
 })
+
+/** The engine's line and its emphases from the request's notes. */
+function lineOf(notes: z.output<typeof LineItemInput>[]): { notes: (number | number[])[], emphasis: (Emphasis | null)[] } {
+  return { notes: notes.map(n => n.item), emphasis: notes.map(n => n.emphasis) }
+}
 
 const SuggestRequest = z.object({
   // "both": a hand for every note as well as its finger (suggestHands).
@@ -67,7 +78,8 @@ function run(command: string | undefined, input: string): unknown {
     throw new InputError(`Standard input is not JSON: ${error instanceof Error ? error.message : String(error)}`)
   }
   if (command === 'suggest') {
-    const { hand, ...request } = validate(SuggestRequest, data)
+    const { hand, notes, handSize } = validate(SuggestRequest, data)
+    const request = { ...lineOf(notes), handSize }
     if (hand === 'both') {
       const result = suggestHands(request)
       return { hands: result.hands, fingers: result.fingers, positionChanges: result.positionChanges, positions: result.positions, cost: result.cost }
@@ -76,8 +88,8 @@ function run(command: string | undefined, input: string): unknown {
     return { fingers: result.fingers, positionChanges: result.positionChanges, positions: result.positions, cost: result.cost }
   }
   if (command === 'check') {
-    const request = validate(CheckRequest, data)
-    return { issues: checkFingering(request) }
+    const { notes, ...request } = validate(CheckRequest, data)
+    return { issues: checkFingering({ ...request, ...lineOf(notes) }) }
   }
   const request = validate(GradeRequest, data)
   return gradeAttempt(request.drill, request.events, request.options)

@@ -9,13 +9,14 @@ import { lineLattice, withOptionPenalty, type LineLattice } from './lattice'
 import { nameFromMidi } from './pitch'
 import { touchPositionStarts } from './positions'
 import { scalePhases } from './scale'
+import { emphasisPoints } from './suggest'
 import { MAX_COMF, MAX_PRAC, MIN_COMF, MIN_PRAC, pairSpan, spanTable, type SpanRow } from './spans'
 import { itemKeys, itemPitchesLowToHigh, lineTouches, type Touch } from './touches'
-import type { Finger, Hand, HandSize, LineItem } from './types'
+import type { Emphasis, Finger, Hand, HandSize, LineItem } from './types'
 
 export type CheckRule =
   | 'thumbOnBlack' | 'fourFiveAlternation' | 'sameFinger' | 'crossingWithoutThumb'
-  | 'stretch' | 'beyondReach' | 'avoidablePositionChange'
+  | 'stretch' | 'beyondReach' | 'avoidablePositionChange' | 'softThumb' | 'weakAccent'
 
 export interface FingeringIssue {
   /** 0-based index of the note (or chord) where the awkward spot ends. */
@@ -32,6 +33,8 @@ export interface CheckInput {
   handSize?: HandSize
   /** Whether the line is meant legato (the default): only then is one finger on two keys in a row a fault. */
   legato?: boolean
+  /** Each item's emphasis (null or absent for an ordinary note). */
+  emphasis?: (Emphasis | null | undefined)[]
 }
 
 /** Notes on either side of a position change that the check may re-finger to avoid it. */
@@ -65,6 +68,7 @@ function single(line: Touch[][], notes: LineItem[], i: number): Touch | null {
  * - a crossing of two fingers without the thumb (common practice: only the thumb passes under);
  * - a span beyond the comfortable or the practical span of the hand size (Parncutt et al. 1997
  *   Table 1, scaled per hand size in spans.ts), except an arpeggio's thumb passing (ergonomics.ts);
+ * - the thumb on a soft note between two others, and 4 or 5 on an accent (common practice, see emphasisPoints in suggest.ts);
  * - a position change that another fingering of the few notes around it avoids (the search of suggest.ts
  *   over those notes, the rest of the fingering kept).
  */
@@ -88,6 +92,11 @@ export function checkFingering(input: CheckInput): FingeringIssue[] {
       const whiteAround = a !== null && c !== null && !isBlackKey(a.k) && !isBlackKey(c.k)
       if (inScale) report(i, 'thumbOnBlack', `${capital(noteWord(notes, i))}: the thumb on a black key in a scale; scale fingerings keep the thumb on white keys.`)
       else if (whiteAround) report(i, 'thumbOnBlack', `${capital(noteWord(notes, i))}: the thumb on a black key between two white ones pulls the hand in and out.`)
+    }
+    if (b && emphasisPoints(input.emphasis?.[i], b.f, a !== null && c !== null) > 0) {
+      report(i, input.emphasis?.[i] === 'soft' ? 'softThumb' : 'weakAccent', input.emphasis?.[i] === 'soft'
+        ? `${capital(noteWord(notes, i))}: a soft note on the thumb, the heaviest finger; another finger keeps it quiet more easily.`
+        : `${capital(noteWord(notes, i))}: an accent on ${FINGER_WORDS[b.f]}, a weak finger; 1, 2 or 3 gives it more surely.`)
     }
     if (a && b) pairIssues(table, notes, i, a, b, legato, handSize, report)
     if (alternatesFourFive(line, notes, i)) {

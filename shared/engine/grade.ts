@@ -7,7 +7,8 @@
 //   score = 100 × Σ weight × part, weights accuracy 0.35, timing 0.25, loudness 0.15, positions 0.10, tempo 0.15
 //   accuracy  = correct / (drill notes + extra notes)
 //   timing    = max(0, 1 − cvPercent / 20)           (cvPercent: onset SD as % of the note step)
-//   loudness  = max(0, 1 − velocity SD / 20)
+//   loudness  = max(0, 1 − velocity SD / 20 − 0.25 × emphasis checks failed)
+//               (SD among notes of equal emphasis; the checks: accents stand out, soft notes stay soft)
 //   positions = max(0, 1 − |played − planned| / (planned + 1))
 //   tempo     = min(played, target) / max(played, target)
 //   Every part but accuracy is multiplied by the share of drill notes played (correct + wrong),
@@ -21,10 +22,10 @@ import { pairNoteEvents, type PlayedNote } from './performance'
 import { midiFromName } from './pitch'
 import { leastSquaresLine, mean, median, standardDeviation, type Line } from './stats'
 import { suggestFingering } from './suggest'
-import type { DrillMusic, Finger, GradeOptions, GradeResult, Hand, LineItem, PlayedEvent } from './types'
+import type { DrillMusic, Emphasis, Finger, GradeOptions, GradeResult, Hand, LineItem, PlayedEvent } from './types'
 
 /** Stored with every attempt, so grades from an older engine can be told apart and recomputed. */
-export const ENGINE_VERSION = '1.3.0'
+export const ENGINE_VERSION = '1.4.0'
 
 type Part = keyof GradeResult['scoreParts']
 
@@ -33,12 +34,21 @@ const WEIGHTS: Record<Part, number> = { accuracy: 0.35, timing: 0.25, loudness: 
 const TIMING_ZERO_CV_PERCENT = 20
 /** A velocity SD this large earns no loudness marks (about one dynamic level, from memory). */
 const LOUDNESS_ZERO_SD = 20
+/**
+ * How much louder an accent, or softer a soft note, must be than the ordinary notes, in MIDI velocity:
+ * half of LOUDNESS_ZERO_SD's dynamic level (from memory, as that figure is).
+ */
+const EMPHASIS_MIN_VELOCITY = 10
+/** Loudness marks lost for each emphasis check a performance fails (our own choice: a quarter). */
+const EMPHASIS_CHECK_PENALTY = 0.25
+
 /** The velocity handed to the inference for notes that carried none: the middle of the MIDI range. */
 const NEUTRAL_VELOCITY = 64
 
 export const SCORE_FORMULA = `score = 100 × (${WEIGHTS.accuracy}·accuracy + ${WEIGHTS.timing}·timing + ${WEIGHTS.loudness}·loudness + ${WEIGHTS.positions}·positions + ${WEIGHTS.tempo}·tempo); `
   + `accuracy = correct / (drill notes + extra); timing = max(0, 1 − cvPercent / ${TIMING_ZERO_CV_PERCENT}); `
-  + `loudness = max(0, 1 − velocity SD / ${LOUDNESS_ZERO_SD}); positions = max(0, 1 − |played − planned| / (planned + 1)); `
+  + `loudness = max(0, 1 − velocity SD among notes of equal emphasis / ${LOUDNESS_ZERO_SD} − ${EMPHASIS_CHECK_PENALTY} × failed emphasis checks `
+  + `(accents at least ${EMPHASIS_MIN_VELOCITY} louder than ordinary notes, soft notes at least ${EMPHASIS_MIN_VELOCITY} softer)); positions = max(0, 1 − |played − planned| / (planned + 1)); `
   + `tempo = min(played, target) / max(played, target); every part but accuracy is multiplied by the share of drill notes played; `
   + `without any velocity, loudness drops out and the other weights are rescaled to sum 1`
 
@@ -48,13 +58,14 @@ interface Target {
   beat: number
   hand: Hand
   finger: Finger | null
+  emphasis: Emphasis | null
 }
 
 function targetsOf(drill: DrillMusic): Target[] {
   const hands = drillNoteHands(drill)
   return drill.notes.map((note, index) => {
     const midi = midiFromName(note.pitch)
-    return { index, midi, beat: note.beat, hand: hands[index]!, finger: note.finger ?? null }
+    return { index, midi, beat: note.beat, hand: hands[index]!, finger: note.finger ?? null, emphasis: note.emphasis ?? null }
   })
 }
 
@@ -221,6 +232,40 @@ function ascendingOrder(values: readonly number[]): number[] {
   return order
 }
 
+/** Velocities of the matched notes of each emphasis ('ordinary' for unmarked notes). */
+function velocitiesByEmphasis(targets: Target[], velocities: (number | null)[]): Record<Emphasis | 'ordinary', number[]> {
+  const groups: Record<Emphasis | 'ordinary', number[]> = { soft: [], ordinary: [], accent: [] }
+  for (const t of targets) {
+    const v = velocities[t.index]
+    if (v != null) groups[t.emphasis ?? 'ordinary'].push(v)
+  }
+  return groups
+}
+
+/** Each velocity's distance from the mean of its own emphasis group, so that a planned accent is not unevenness. */
+function pooledDeviation(groups: Record<Emphasis | 'ordinary', number[]>): number | null {
+  const residuals: number[] = []
+  for (const values of Object.values(groups)) {
+    const m = mean(values)
+    if (m !== null) for (const v of values) residuals.push(v - m)
+  }
+  return standardDeviation(residuals)
+}
+
+function emphasisChecks(groups: Record<Emphasis | 'ordinary', number[]>): GradeResult['loudness']['emphasis'] {
+  const ordinary = mean(groups.ordinary)
+  const accent = mean(groups.accent)
+  const soft = mean(groups.soft)
+  const accentLift = ordinary === null || accent === null ? null : accent - ordinary
+  const softDrop = ordinary === null || soft === null ? null : ordinary - soft
+  return {
+    accentLift,
+    softDrop,
+    accentsStandOut: accentLift === null ? null : accentLift >= EMPHASIS_MIN_VELOCITY,
+    softStaysSoft: softDrop === null ? null : softDrop >= EMPHASIS_MIN_VELOCITY,
+  }
+}
+
 function measureLoudness(targets: Target[], matched: (PlayedNote | null)[], fingers: GradeResult['inferredFingers']): GradeResult['loudness'] {
   const velocities = targets.map(t => matched[t.index]?.velocity ?? null)
   const present = velocities.filter((v): v is number => v !== null)
@@ -243,7 +288,23 @@ function measureLoudness(targets: Target[], matched: (PlayedNote | null)[], fing
   const pick = (sign: 1 | -1): Finger | null => measured.length < 2
     ? null
     : measured.reduce((best, f) => sign * byFinger[f]! > sign * byFinger[best]! ? f : best)
-  return { sd: standardDeviation(present), mean: overall, byFinger, loudestFinger: pick(1), softestFinger: pick(-1), velocities }
+  const groups = velocitiesByEmphasis(targets, velocities)
+  return {
+    sd: pooledDeviation(groups),
+    mean: overall,
+    byFinger,
+    loudestFinger: pick(1),
+    softestFinger: pick(-1),
+    velocities,
+    emphasis: emphasisChecks(groups),
+  }
+}
+
+/** The loudness part: evenness among notes of equal emphasis, less a share for each emphasis check failed. */
+function loudnessValue(loudness: GradeResult['loudness']): number {
+  const { accentsStandOut, softStaysSoft } = loudness.emphasis
+  const failed = (accentsStandOut === false ? 1 : 0) + (softStaysSoft === false ? 1 : 0)
+  return clamp01(1 - loudness.sd! / LOUDNESS_ZERO_SD - EMPHASIS_CHECK_PENALTY * failed)
 }
 
 const clamp01 = (x: number): number => Math.min(1, Math.max(0, x))
@@ -270,7 +331,7 @@ export function gradeAttempt(drill: DrillMusic, events: PlayedEvent[], options: 
   const values: Record<Part, number> = {
     accuracy: total + extra === 0 ? 0 : correct / (total + extra),
     timing: timing.cvPercent === null ? 0 : coverage * clamp01(1 - timing.cvPercent / TIMING_ZERO_CV_PERCENT),
-    loudness: loudness.sd === null ? 0 : coverage * clamp01(1 - loudness.sd / LOUDNESS_ZERO_SD),
+    loudness: loudness.sd === null ? 0 : coverage * loudnessValue(loudness),
     positions: coverage * clamp01(1 - Math.abs(inferred.at.length - plannedAt.length) / (plannedAt.length + 1)),
     tempo: playedBpm === null ? 0 : coverage * Math.min(playedBpm, targetBpm) / Math.max(playedBpm, targetBpm),
   }

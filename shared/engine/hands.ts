@@ -4,7 +4,7 @@ import { chordRules, PERFORMANCE_WEIGHTS } from './ergonomics'
 import { midiFromName } from './pitch'
 import { suggestFingering } from './suggest'
 import { chordOptions, itemPitchesLowToHigh, toRightHandSpace } from './touches'
-import type { DrillMusic, Finger, Hand, HandSize, LineItem } from './types'
+import type { DrillMusic, Emphasis, Finger, Hand, HandSize, LineItem } from './types'
 
 /**
  * Where each hand waits before its first note, in right-hand space: the right hand around G4, the
@@ -51,6 +51,8 @@ const CROSS_OVER_POINTS = 2
 export interface HandsInput {
   notes: LineItem[]
   handSize?: HandSize
+  /** Each item's emphasis, handed on to each hand's fingering (suggest.ts). */
+  emphasis?: (Emphasis | null | undefined)[]
 }
 
 export interface HandsResult {
@@ -314,7 +316,7 @@ function chooseOptions(notes: LineItem[], options: ItemOption[][], model: CostMo
 
 /** Hands and fingers for a line that both hands share (`suggest` with `"hand": "both"`). */
 export function suggestHands(input: HandsInput): HandsResult {
-  const { notes, handSize = 'medium' } = input
+  const { notes, handSize = 'medium', emphasis } = input
   const model = costModel(handSize, PERFORMANCE_WEIGHTS)
   const options = notes.map(item => itemOptions(item, model))
   const chosen = notes.length ? chooseOptions(notes, options, model) : []
@@ -332,7 +334,7 @@ export function suggestHands(input: HandsInput): HandsResult {
     const items = parts.flatMap((p, i) => (p[hand].length ? [i] : []))
     if (items.length === 0) continue
     const line: LineItem[] = items.map(i => (Array.isArray(notes[i]) ? parts[i]![hand] : parts[i]![hand][0]!))
-    const result = suggestFingering({ hand, notes: line, handSize })
+    const result = suggestFingering({ hand, notes: line, handSize, emphasis: emphasis && items.map(i => emphasis[i]) })
     cost += result.cost
     for (const k of result.positions) positions.add(items[k]!)
     items.forEach((i, k) => {

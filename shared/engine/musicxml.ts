@@ -4,13 +4,16 @@
 // attributes (divisions, key/fifths/mode, time/beats/beat-type, staves), note (pitch/step/alter/
 // octave, duration, chord, rest, grace, cue, staff, tie, notations/technical/fingering),
 // backup and forward (moving the time cursor within a measure), sound@tempo and
-// direction/metronome. Beats are quarter notes, as in <divisions> and <sound tempo>.
+// direction/metronome, and emphasis: notations/articulations/accent and strong-accent make an accent;
+// the dynamics p and pp (and ppp…) make the notes that follow on their staff soft, f and ff (and
+// fff…) make them accents, mp and mf ordinary again (a dynamics element inside a note's notations
+// marks that note alone). Beats are quarter notes, as in <divisions> and <sound tempo>.
 // Staff 1 is the right hand and staff 2 the left, as on a grand staff.
 import { XMLParser, XMLValidator } from 'fast-xml-parser'
 import { Note } from 'tonal'
 import { ImportError, drillTempo, finishImport, roundBeat } from './importing'
 import { midiFromName } from './pitch'
-import type { DrillNote, Finger, Hand, ImportedDrill } from './types'
+import type { DrillNote, Emphasis, Finger, Hand, ImportedDrill } from './types'
 
 export interface MusicXmlImportOptions {
   /** The hand of a one-staff part; right when absent. */
@@ -77,6 +80,30 @@ function fingerOf(note: XNode): Finger | undefined {
   return undefined
 }
 
+/** The emphasis a <dynamics> element gives: soft for p, pp…, accent for f, ff…, none for mp and mf; undefined when it names none of these. */
+function dynamicsEmphasis(dynamics: XNode): Emphasis | null | undefined {
+  for (const mark of childrenOf(dynamics).map(tagOf)) {
+    if (/^p+$/.test(mark)) return 'soft'
+    if (/^f+$/.test(mark)) return 'accent'
+    if (mark === 'mp' || mark === 'mf') return null
+  }
+  return undefined
+}
+
+/** A note's own emphasis: an accent or strong accent among its articulations, or dynamics in its notations. */
+function noteEmphasis(note: XNode): Emphasis | null | undefined {
+  for (const notations of all(note, 'notations')) {
+    for (const articulations of all(notations, 'articulations')) {
+      if (child(articulations, 'accent') || child(articulations, 'strong-accent')) return 'accent'
+    }
+    for (const dynamics of all(notations, 'dynamics')) {
+      const emphasis = dynamicsEmphasis(dynamics)
+      if (emphasis !== undefined) return emphasis
+    }
+  }
+  return undefined
+}
+
 function tieTypes(note: XNode): Set<string> {
   return new Set(all(note, 'tie').map(t => attr(t, 'type') ?? ''))
 }
@@ -113,6 +140,8 @@ export function importMusicXml(text: string, options: MusicXmlImportOptions = {}
   let tempo: number | undefined
   const notes: (DrillNote & { staff: number })[] = []
   const openTies = new Map<string, DrillNote>()
+  // The dynamic level in force on each staff, as an emphasis (null: ordinary).
+  const levels = new Map<number, Emphasis | null>()
   let measureStart = 0
 
   for (const measure of all(part, 'measure')) {
@@ -154,6 +183,12 @@ export function importMusicXml(text: string, options: MusicXmlImportOptions = {}
         furthest = Math.max(furthest, position)
       }
       else if (tag === 'sound' || tag === 'direction') {
+        for (const type of tag === 'direction' ? all(element, 'direction-type') : []) {
+          for (const dynamics of all(type, 'dynamics')) {
+            const emphasis = dynamicsEmphasis(dynamics)
+            if (emphasis !== undefined) levels.set(numberIn(element, 'staff') ?? 1, emphasis)
+          }
+        }
         const sound = tag === 'sound' ? element : child(element, 'sound')
         const metronome = tag === 'direction' ? all(element, 'direction-type').map(d => child(d, 'metronome')).find(Boolean) : undefined
         const bpm = Number(sound ? attr(sound, 'tempo') : undefined) || (metronome ? metronomeBpm(metronome) : undefined)
@@ -195,7 +230,9 @@ export function importMusicXml(text: string, options: MusicXmlImportOptions = {}
           continue
         }
         const finger = fingerOf(element)
-        const note = { pitch: name, beat: roundBeat(measureStart + onset), length: roundBeat(length), staff, ...(finger ? { finger } : {}) }
+        const own = noteEmphasis(element)
+        const emphasis = own === undefined ? levels.get(staff) : own
+        const note = { pitch: name, beat: roundBeat(measureStart + onset), length: roundBeat(length), staff, ...(finger ? { finger } : {}), ...(emphasis ? { emphasis } : {}) }
         notes.push(note)
         if (ties.has('start')) openTies.set(tieKey, note)
       }

@@ -3,6 +3,8 @@
 //   C4/1 D4/2 E4/3        notes: pitch (C4 = middle C, # and b, ## and bb), then / and the planned finger
 //   C4/1:1/2  G4:1.5      a length in beats after ':' (whole, decimal or fraction); it carries on
 //                         to the following notes until another is written; the first is 1 beat
+//   C4/3>  C4/1p          emphasis, last in the note: '>' an accent (the printed accent sign), 'p' a
+//                         soft note (piano); in a chord each note carries its own
 //   r  r:2                a rest of the current length, or of the given one
 //   C4/1+E4/3+G4/5:2      a chord: notes joined by '+', struck together; a length on the last
 //                         note is the chord's, another note may carry its own (C4:4+E4:1 holds
@@ -18,13 +20,14 @@
 // finger where printed fingering puts it (next to the note), and sticky lengths keep a scale in
 // even quavers as short as the note names themselves.
 import { z } from 'zod'
-import type { DrillHand, DrillNote, Finger, Hand } from '../types/drill'
+import type { DrillHand, DrillNote, Emphasis, Finger, Hand } from '../types/drill'
 import { midiFromName, normalizeName, PitchError } from './pitch'
 
 /** The summary the drill editor shows beside the text box. */
 export const NOTATION_HELP = `Type the notes one after another, separated by spaces.
 • C4/1 — a note and its finger (C4 is middle C; write sharps with #, flats with b, e.g. F#4/2, Bb3/4). The finger may be left out.
 • C4/1:1/2 — a length in beats after a colon (1, 2, 1.5, 1/2, 1/3 …). It stays until you write another; the first note lasts 1 beat.
+• C4/3> or C4/1p — an accented note (>) or a soft one (p), written last, after the finger and length.
 • r or r:2 — a rest.
 • C4/1+E4/3+G4/5:2 — a chord: notes joined by +; a length at the end is the whole chord's.
 • | — a bar line. It is checked against the drill's metre.
@@ -89,15 +92,21 @@ function parseLength(text: string, at: Token, offset: number): number {
   return length
 }
 
-interface Member { pitch: string, finger?: Finger, length?: number }
+interface Member { pitch: string, finger?: Finger, length?: number, emphasis?: Emphasis }
+
+/** The emphasis marks, written last in a note: the printed accent sign and the piano sign. */
+const EMPHASIS_MARKS: Readonly<Record<string, Emphasis>> = { '>': 'accent', 'p': 'soft' }
+const MARK_OF: Readonly<Record<Emphasis, string>> = { accent: '>', soft: 'p' }
 
 function parseChord(token: Token): Member[] {
   const members: Member[] = []
   let offset = 0
-  for (const text of token.text.split('+')) {
+  for (const written of token.text.split('+')) {
+    const emphasis = EMPHASIS_MARKS[written.slice(-1)]
+    const text = emphasis ? written.slice(0, -1) : written
     const m = MEMBER.exec(text)
     if (!m) {
-      throw new NotationError(`"${text}" is not a note: write a pitch such as C4 or F#3, then /finger and :length if wanted`, token.line, token.column + offset)
+      throw new NotationError(`"${text}" is not a note: write a pitch such as C4 or F#3, then /finger, :length and > (accent) or p (soft) if wanted`, token.line, token.column + offset)
     }
     try {
       midiFromName(m[1]!)
@@ -115,8 +124,9 @@ function parseChord(token: Token): Member[] {
       member.finger = finger
     }
     if (m[3] !== undefined) member.length = parseLength(m[3], token, offset + text.indexOf(':') + 1)
+    if (emphasis) member.emphasis = emphasis
     members.push(member)
-    offset += text.length + 1
+    offset += written.length + 1
   }
   return members
 }
@@ -185,6 +195,7 @@ export function parseNotation(text: string, options: NotationOptions): DrillNote
           length: m.length ?? chordLength,
           ...(drillHand === 'both' ? { hand: hand! } : {}),
           ...(m.finger === undefined ? {} : { finger: m.finger }),
+          ...(m.emphasis ? { emphasis: m.emphasis } : {}),
         })
       }
       advance(voice, Math.min(...members.map(m => m.length ?? chordLength)), token)
@@ -232,7 +243,7 @@ function formatVoice(notes: DrillNote[], options: FormatOptions): string {
     const chordLength = chord[chord.length - 1]!.length
     const written = chord.map((n, i) => {
       const own = i === chord.length - 1 ? withLength(n.length) : n.length === chordLength ? '' : `:${formatNumber(n.length)}`
-      return `${normalizeName(n.pitch)}${n.finger ? `/${n.finger}` : ''}${own}`
+      return `${normalizeName(n.pitch)}${n.finger ? `/${n.finger}` : ''}${own}${n.emphasis ? MARK_OF[n.emphasis] : ''}`
     })
     out.push(written.join('+'))
     beat = snap(start + Math.min(...chord.map(n => n.length)))

@@ -6,7 +6,7 @@ import { isBlackKey, keyCenterMm, WHITE_KEY_MM } from './keys'
 import { chosenTouches, lineLattice, withOptionPenalty } from './lattice'
 import { FORBIDDEN, scaleFingering, scalePhases } from './scale'
 import { itemKeys, itemPitchesLowToHigh, toRightHandSpace, type Touch } from './touches'
-import type { Finger, Hand, LineItem, SuggestInput, SuggestResult } from './types'
+import type { Emphasis, Finger, Hand, LineItem, SuggestInput, SuggestResult } from './types'
 
 /**
  * Points for each note of a sequence that leaves the fingering its repetitions share. About one
@@ -14,6 +14,23 @@ import type { Finger, Hand, LineItem, SuggestInput, SuggestResult } from './type
  * choices, too little to force an awkward fingering on the first or last group (our own choice).
  */
 const CONSISTENCY_POINTS = 2
+
+/**
+ * Emphasis (common practice): the thumb is the heaviest finger, so a soft note between two others is
+ * better given another finger where one serves; an accent is surer on a strong finger (1, 2, 3) than
+ * on 4 or 5. Points per note, our own figures: three each, as much as a thumb on a black key
+ * (LEGATO_WEIGHTS), so that each moves a fingering where another serves nearly as well, yet neither
+ * outweighs a position change or a scale's pattern.
+ */
+const SOFT_THUMB_POINTS = 3
+const WEAK_ACCENT_POINTS = 3
+
+/** Points for a finger on a note of the given emphasis; `passing` says the note lies between two others. */
+export function emphasisPoints(emphasis: Emphasis | null | undefined, finger: Finger, passing: boolean): number {
+  if (emphasis === 'soft' && finger === 1 && passing) return SOFT_THUMB_POINTS
+  if (emphasis === 'accent' && finger >= 4) return WEAK_ACCENT_POINTS
+  return 0
+}
 
 /** Longest repeated group looked for; drill sequences repeat groups of a few notes. */
 const MAX_PERIOD = 32
@@ -80,9 +97,14 @@ function fingersForItems(hand: Hand, items: LineItem[], touches: Touch[][]): (Fi
 }
 
 export function suggestFingering(input: SuggestInput): SuggestResult {
-  const { hand, notes, handSize = 'medium' } = input
+  const { hand, notes, handSize = 'medium', emphasis } = input
   const keys = notes.map(item => itemKeys(hand, item))
-  const lattice = lineLattice(keys, costModel(handSize))
+  const marked = emphasis?.some((e, i) => e && !Array.isArray(notes[i])) ?? false
+  const plain = lineLattice(keys, costModel(handSize))
+  // Emphasis weighs on single notes' fingers; a chord's notes keep the model's choice.
+  const lattice: Lattice = marked
+    ? withPenalty(plain, (i, f) => (Array.isArray(notes[i]) ? 0 : emphasisPoints(emphasis![i], f, i > 0 && i < notes.length - 1)))
+    : plain
   const line = keys.every(k => k.length === 1) ? keys.map(k => k[0]!) : null
   const phases = line ? scalePhases(line) : null
   const period = line && !phases ? sequencePeriod(line) : 0
@@ -103,7 +125,7 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
   else {
     path = cheapestPath(lattice).path
   }
-  const fingers = fingersForItems(hand, notes, chosenTouches(lattice, path))
+  const fingers = fingersForItems(hand, notes, chosenTouches(plain, path))
   const positions = positionStarts(hand, notes, fingers, handSize)
   return { fingers, positions, positionChanges: positions.length, cost: pathCost(lattice, path) }
 }

@@ -1,9 +1,9 @@
 // The engine's public shapes. The browser, the server and the command line all read these,
 // so change them only together with every caller.
-import type { Finger, Hand, HandSize, DrillMusic, DrillNote } from '../types/drill'
+import type { Finger, Hand, HandSize, DrillMusic, DrillNote, Emphasis } from '../types/drill'
 import type { PlayedEvent } from '../types/attempt'
 
-export type { Finger, Hand, HandSize, DrillMusic, DrillNote, PlayedEvent }
+export type { Finger, Hand, HandSize, DrillMusic, DrillNote, Emphasis, PlayedEvent }
 
 /** A line to finger: MIDI numbers, a chord as an array of MIDI numbers. */
 export type LineItem = number | number[]
@@ -12,6 +12,8 @@ export interface SuggestInput {
   hand: Hand
   notes: LineItem[]
   handSize?: HandSize
+  /** Each item's emphasis (null or absent for an ordinary note); see shared/types/drill.ts. */
+  emphasis?: (Emphasis | null | undefined)[]
 }
 
 export interface SuggestResult {
@@ -50,6 +52,7 @@ export interface GradeResult {
     deviationsMs: (number | null)[]
   }
   loudness: {
+    /** SD of velocities, each note measured from the mean of the notes of its own emphasis (soft, ordinary, accent). */
     sd: number | null
     mean: number | null
     /** Mean velocity of each inferred finger minus the mean of all notes. */
@@ -58,6 +61,17 @@ export interface GradeResult {
     softestFinger: Finger | null
     /** Per drill note: velocity played (null where missed). */
     velocities: (number | null)[]
+    /**
+     * The drill's soft notes and accents against its ordinary notes: mean velocity of the accents minus
+     * that of the ordinary notes, and of the ordinary notes minus the soft ones; whether each difference
+     * reaches EMPHASIS_MIN_VELOCITY (grade.ts). Null where the drill has no such notes, or none played.
+     */
+    emphasis: {
+      accentLift: number | null
+      softDrop: number | null
+      accentsStandOut: boolean | null
+      softStaysSoft: boolean | null
+    }
   }
   positionChanges: {
     planned: number

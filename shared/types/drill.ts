@@ -23,6 +23,13 @@ export type HandSize = z.infer<typeof HandSize>
 /** A spelled pitch such as `C4`, `F#3`, `Bb5`, `F##4` or `Cb5` (scientific pitch notation, C4 = MIDI 60). */
 export const PitchName = z.string().trim().regex(/^[A-Ga-g](?:#{1,2}|b{1,2})?-?\d$/, 'Expected a pitch such as C4, F#3 or Bb5')
 
+/**
+ * How a note is meant to sound beside its neighbours: `soft` (a quiet note, such as one marked p or pp)
+ * or `accent` (a note that stands out, such as one marked > or f). Absent for an ordinary note.
+ */
+export const Emphasis = z.enum(['soft', 'accent'])
+export type Emphasis = z.infer<typeof Emphasis>
+
 export const DrillNote = z.object({
   pitch: PitchName,
   /** Onset in beats from the start of the drill. */
@@ -33,6 +40,7 @@ export const DrillNote = z.object({
   hand: Hand.optional(),
   /** The planned finger; absent where the teacher left it open. */
   finger: Finger.nullable().optional(),
+  emphasis: Emphasis.optional(),
 })
 export type DrillNote = z.infer<typeof DrillNote>
 

@@ -10,7 +10,8 @@ function engine(command: string, input: string): { status: number | null, stdout
   return { status: run.status, stdout: run.stdout, stderr: run.stderr }
 }
 
-describe('scripts/engine.ts', () => {
+// Each test starts the command line (tsx compiling the engine), which takes seconds on a busy machine.
+describe('scripts/engine.ts', { timeout: 30_000 }, () => {
   it('runs through the npm script, printing JSON only', () => {
     const run = spawnSync('npm', ['run', '-s', 'engine', '--', 'suggest'], { cwd: root, input: '{"hand":"left","notes":["C3","B2","A2"]}', encoding: 'utf8' })
     expect(run.status).toBe(0)
@@ -25,6 +26,14 @@ describe('scripts/engine.ts', () => {
     expect(out.fingers).toHaveLength(4)
     expect(out.fingers[3]).toHaveLength(3)
     expect(out.positionChanges).toBe(out.positions.length)
+  })
+
+  it('suggest: takes a note with its emphasis as an object beside plain names', () => {
+    // Right hand G4 down to A3 with a soft D4: the thumb leaves D4 (see emphasis.test.ts).
+    const notes = ['G4', 'F4', 'E4', { pitch: 'D4', emphasis: 'soft' }, 'C4', 'B3', 'A3']
+    const run = engine('suggest', JSON.stringify({ hand: 'right', notes }))
+    expect(run.status).toBe(0)
+    expect(JSON.parse(run.stdout).fingers[3]).not.toBe(1)
   })
 
   it('suggest with both hands: a hand and a finger for every note', () => {
@@ -74,6 +83,7 @@ describe('scripts/engine.ts', () => {
 
   it.each([
     ['check', '{"hand":"right","notes":["C4","D4"],"fingers":[1]}', /one entry per note/],
+    ['suggest', '{"hand":"right","notes":[{"pitch":"C4","emphasis":"loud"}]}', /notes\[0\]/],
     ['check', '{"hand":"right","notes":["C4"],"fingers":[6]}', /fingers/],
     ['suggest', 'not json', /not JSON/],
     ['suggest', '{"hand":"middle","notes":["C4"]}', /hand/],
