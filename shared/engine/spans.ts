@@ -9,9 +9,12 @@ export type FingerPair = '1-2' | '1-3' | '1-4' | '1-5' | '2-3' | '2-4' | '2-5' |
 /**
  * Parncutt, Sloboda, Clarke, Raekallio & Desain 1997, Music Perception 14(4), Table 1 (right hand;
  * the left hand is its mirror image). Written from memory of the published table, then compared with
- * four independent public transcriptions of it in research code: every figure here agrees with at
- * least three of them (one gives 1–5 MaxRel 11 and another 4–5 MaxPrac 6). The printed page itself was
- * not at hand, so the figures stay marked "from memory".
+ * four independent public transcriptions of Table 1 in research code (fingering tools, which the project
+ * does not name): every figure here agrees with at least three of them (one gives 1–5 MaxRel 11 and
+ * another 4–5 MaxPrac 6). The printed page itself was not at hand, so the figures stay marked "from
+ * memory". tests/unit/engine/ergonomics.test.ts holds a second copy as a guard against accidental edits;
+ * it is no outside check. Conventions that override a figure (an arpeggio's thumb passing) are rules of
+ * their own in ergonomics.ts, never edits here.
  * Negative values mean the higher-numbered finger plays below the lower one (a crossing with the thumb).
  *
  * Distances stay in semitones, as published. Jacobs 2001 (Music Perception 18(4)) proposed measuring

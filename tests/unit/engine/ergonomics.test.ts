@@ -5,8 +5,12 @@ import { HAND_SIZE_FACTOR, PARNCUTT_SPANS, spanTable, type FingerPair, type Span
 import type { Finger } from '../../../shared/engine/types'
 
 // Parncutt, Sloboda, Clarke, Raekallio & Desain 1997, Music Perception 14(4), Table 1, right hand,
-// semitones [MinPrac, MinComf, MinRel, MaxRel, MaxComf, MaxPrac]. From memory of the published table;
-// at least three of four independent public transcriptions agree with each figure (see spans.ts).
+// semitones [MinPrac, MinComf, MinRel, MaxRel, MaxComf, MaxPrac]. These rows are a second copy of
+// spans.ts, kept as a guard against accidental edits of it, not as an outside check: both were written
+// from memory of the published table, and the printed page was not at hand. Each figure was compared
+// with four independent public transcriptions of Table 1 in research code (fingering tools, which the
+// project does not name); at least three of the four agree with every figure, one giving 1–5 MaxRel 11
+// and another 4–5 MaxPrac 6.
 const PUBLISHED: [FingerPair, SpanRow][] = [
   ['1-2', [-5, -3, 1, 5, 8, 10]],
   ['1-3', [-4, -2, 3, 7, 10, 12]],
@@ -21,7 +25,7 @@ const PUBLISHED: [FingerPair, SpanRow][] = [
 ]
 
 describe('span table', () => {
-  it.each(PUBLISHED)('keeps the published spans for fingers %s', (pair, row) => {
+  it.each(PUBLISHED)('guards spans.ts against accidental edits: fingers %s as written from memory', (pair, row) => {
     expect(PARNCUTT_SPANS[pair]).toEqual(row)
   })
 

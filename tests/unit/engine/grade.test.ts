@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
-import { ENGINE_VERSION, gradeAttempt, SCORE_FORMULA } from '../../../shared/engine/grade'
+import { gradeAttempt, SCORE_FORMULA } from '../../../shared/engine/grade'
 import type { DrillMusic, Finger, PlayedEvent } from '../../../shared/engine/types'
 
 // C major, right hand, one octave up and down with the standard fingering 1 2 3 1 2 3 4 5 (common practice).
@@ -31,7 +31,8 @@ const STEP = 300
 describe('gradeAttempt', () => {
   it('gives an even, accurate performance at tempo timing SD ≈ 0 and a high score', () => {
     const result = gradeAttempt(scale, perform(MIDIS, STEP))
-    expect(result.engineVersion).toBe(ENGINE_VERSION)
+    // The stamp is the engine's own version (version.test.ts ties that to the engine's results).
+    expect(result.engineVersion).toMatch(/^\d+\.\d+\.\d+$/)
     expect(result.accuracy).toEqual({ correct: 15, wrong: 0, extra: 0, missed: 0, total: 15 })
     expect(result.timing.sdMs).toBeCloseTo(0, 6)
     expect(result.timing.cvPercent).toBeCloseTo(0, 6)
@@ -203,7 +204,8 @@ describe('gradeAttempt', () => {
       expect(result.score).toBeLessThanOrEqual(100)
       expect(result.inferredFingers).toHaveLength(15)
       expect(result.notes).toHaveLength(15)
-      expect(JSON.parse(JSON.stringify(result))).toBeTruthy()
+      // Stored as JSON: nothing may be NaN, infinite or undefined, which JSON would turn into null or drop.
+      expect(JSON.parse(JSON.stringify(result))).toEqual(result)
     }), { numRuns: 300 })
   })
 })

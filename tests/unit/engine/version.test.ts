@@ -1,0 +1,69 @@
+// ENGINE_VERSION against what the engine computes: a digest of grades, suggestions, hands, inferred
+// fingerings and checks over fixed inputs. A change that alters any of them changes the digest; the
+// test then fails until a new row with a raised ENGINE_VERSION and the new digest is added below.
+import { createHash } from 'node:crypto'
+import { describe, expect, it } from 'vitest'
+import { checkFingering } from '../../../shared/engine/check'
+import { ENGINE_VERSION, gradeAttempt } from '../../../shared/engine/grade'
+import { suggestHands } from '../../../shared/engine/hands'
+import { inferFingering } from '../../../shared/engine/infer'
+import { suggestFingering } from '../../../shared/engine/suggest'
+import type { DrillMusic, PlayedEvent } from '../../../shared/engine/types'
+
+/** Every engine version with the digest of its results, oldest first. Add a row; never edit one. */
+const RECORDED: { version: string, digest: string }[] = [
+  { version: '1.4.0', digest: 'd0a7323301a88271' },
+]
+
+/** A reproducible stream of numbers in [0, 1) (a linear congruential generator). */
+function random(seed: number): () => number {
+  let state = seed
+  return () => {
+    state = (state * 1664525 + 1013904223) >>> 0
+    return state / 2 ** 32
+  }
+}
+
+function results(): unknown[] {
+  const next = random(42)
+  const scale = [60, 62, 64, 65, 67, 69, 71, 72, 74, 76, 77, 79, 81, 83, 84]
+  const upDown = [...scale, ...scale.slice(0, -1).reverse()]
+  const walk = Array.from({ length: 200 }, () => 48 + Math.floor(next() * 36))
+  const drill: DrillMusic = {
+    hand: 'both',
+    tempoBpm: 96,
+    notes: [
+      ...upDown.map((m, k) => ({ pitch: ['C', 'C#', 'D', 'D#', 'E', 'F', 'F#', 'G', 'G#', 'A', 'A#', 'B'][m % 12]! + String(Math.floor(m / 12) - 1), beat: k / 2, length: 0.5, ...(k % 7 === 3 ? { emphasis: 'accent' as const } : {}) })),
+      ...[36, 43, 48, 43].flatMap((m, k) => [{ pitch: ['C2', 'G2', 'C3', 'G2'][k]!, beat: k * 2, length: 2, ...(m === 48 ? { emphasis: 'soft' as const } : {}) }]),
+    ],
+  }
+  const events: PlayedEvent[] = []
+  drill.notes.forEach((n, k) => {
+    const on = 1000 + n.beat * 625 + Math.round((next() - 0.5) * 40)
+    const note = k < upDown.length ? upDown[k]! : [36, 43, 48, 43][k - upDown.length]!
+    events.push({ note, on: true, velocity: 50 + Math.floor(next() * 50), timeMs: on }, { note, on: false, timeMs: on + 280 })
+  })
+  const performed = upDown.map((midi, k) => ({ midi, onMs: k * 300 + (k === 10 ? 60 : 0), offMs: k * 300 + (k === 9 ? 200 : 310), velocity: 64 }))
+  return [
+    gradeAttempt(drill, events.sort((a, b) => a.timeMs - b.timeMs)),
+    suggestFingering({ hand: 'right', notes: upDown }),
+    suggestFingering({ hand: 'left', notes: walk }),
+    suggestFingering({ hand: 'right', notes: [[60, 64, 67], 65, [62, 67, 71], 72, 76, 79, 84] }),
+    suggestHands({ notes: walk }),
+    inferFingering('right', performed),
+    checkFingering({ hand: 'right', notes: walk.slice(0, 40), fingers: walk.slice(0, 40).map((_, k) => ((k % 5) + 1) as 1 | 2 | 3 | 4 | 5) }),
+  ]
+}
+
+describe('ENGINE_VERSION', () => {
+  it('names the engine whose results it stamps (raise it and add a row when the digest changes)', () => {
+    const digest = createHash('sha256').update(JSON.stringify(results())).digest('hex').slice(0, 16)
+    const latest = RECORDED[RECORDED.length - 1]!
+    expect({ version: ENGINE_VERSION, digest }).toEqual(latest)
+  })
+
+  it('is raised with every recorded change', () => {
+    expect(new Set(RECORDED.map(r => r.version)).size).toBe(RECORDED.length)
+    expect(new Set(RECORDED.map(r => r.digest)).size).toBe(RECORDED.length)
+  })
+})
