@@ -9,7 +9,9 @@
 // legato fingering reaches, or because the fingers crept (a finger back on a key another finger held,
 // with no crossing between: tripleNoteMoves). Any move may also be a hand lift: the hand leaves the
 // keys and lands wherever the next notes want it, at LIFT_POINTS plus the note's own cost; a lift and
-// staying on the keys are summed as two ways to the same fingering (withEvidence).
+// staying on the keys are summed as two ways to the same fingering (withEvidence). The positions
+// returned are where the chosen fingering starts a new one, and where a lift was clearly the likelier
+// reading of the move (LIFT_MARGIN), even if the hand landed where the fingers would not show it.
 //
 // The evidence terms, per move: `detached`, a silence before the note beyond the player's own; `late`,
 // an onset later than the player's own beat; `connected`, keys overlapping or touching (which rules
@@ -81,8 +83,8 @@ type Move = 'inPosition' | 'crossing' | 'shift' | 'sameFinger' | 'repeat'
  * a small delay; a hand lift needs time in the air and usually costs time. For the same finger the
  * silence depends on the player (SAME_FINGER_RELEASE).
  */
-const P_DETACHED: Readonly<Record<Move, number>> = { inPosition: 0.03, crossing: 0.2, shift: 0.9, sameFinger: 0.9, repeat: 0.5 }
-const P_LATE: Readonly<Record<Move, number>> = { inPosition: 0.05, crossing: 0.4, shift: 0.6, sameFinger: 0.35, repeat: 0.3 }
+const P_DETACHED: Readonly<Record<Move, number>> = { inPosition: 0.02, crossing: 0.2, shift: 0.9, sameFinger: 0.9, repeat: 0.5 }
+const P_LATE: Readonly<Record<Move, number>> = { inPosition: 0.03, crossing: 0.4, shift: 0.6, sameFinger: 0.35, repeat: 0.3 }
 /**
  * The same finger must leave one key before it presses the next: a silence of about a tenth of the
  * step (from memory; our estimate). A player whose own articulation already leaves that much shows
@@ -204,7 +206,6 @@ const tripleMoveTables = new WeakMap<SpanRow[][], (Uint8Array | undefined)[]>()
 
 const IN_POSITION = MOVES.indexOf('inPosition')
 const SHIFT = MOVES.indexOf('shift')
-const REPEAT = MOVES.indexOf('repeat')
 
 /**
  * The move into the third of three single notes. A pair alone cannot see a hand that crept along: the
@@ -406,7 +407,7 @@ function thumbEvidence(base: LineLattice, item: Item, i: number, noteKeys: numbe
  * around a likely lift the item gets a triple table of its own: the creep read from its timing, and
  * the rules over three notes weighed by the chance that the hand stayed on the keys before.
  */
-function withEvidence(base: LineLattice, model: CostModel, items: Item[], noteKeys: number[], accents: number[]): Lattice {
+function withEvidence(base: LineLattice, model: CostModel, items: Item[], noteKeys: number[], accents: number[]): EvidenceLattice {
   const { timings, sameFingerDetached } = timingOf(items)
   let most = 0
   for (let i = 0; i < items.length; i++) most = Math.max(most, base.sizes[i]!)
@@ -422,6 +423,9 @@ function withEvidence(base: LineLattice, model: CostModel, items: Item[], noteKe
   let size = 0
   for (let i = 1; i < items.length; i++) size += base.sizes[i - 1]! * base.sizes[i]!
   const buffer = new Float64Array(size)
+  // Per pair entry, whether the hand more probably lifted than stayed on the keys.
+  const liftFlags = new Uint8Array(size)
+  const offsets = new Int32Array(items.length)
   let offset = 0
   const pairs: Float64Array[] = new Array(items.length)
   const triples: (ArrayLike<number> | null)[] = new Array(items.length).fill(null)
@@ -441,7 +445,8 @@ function withEvidence(base: LineLattice, model: CostModel, items: Item[], noteKe
       const own = model.first(base.keys[i]![0]!)
       for (let c = 0; c < 5; c++) lifted[c] = LIFT_POINTS + own[c]! + moveCost[SHIFT]!
     }
-    pairCosts(base, model.table, i, velocity, moveCost, lifted, costs)
+    offsets[i] = offset - costs.length
+    pairCosts(base, model.table, i, velocity, moveCost, lifted, costs, liftFlags.subarray(offsets[i]!, offset))
     pairs[i] = costs
     const lift = liftChance(moveCost)
     if (pairOfSingles && i >= 2 && single(i - 2)) {
@@ -456,8 +461,26 @@ function withEvidence(base: LineLattice, model: CostModel, items: Item[], noteKe
     liftBefore = lift
     heardBefore = liftChance(moveCost, 0.5)
   }
-  return { sizes: base.sizes, first: () => first, pair: i => pairs[i]!, triple: i => triples[i] ?? base.triple(i) }
+  return {
+    sizes: base.sizes,
+    first: () => first,
+    pair: i => pairs[i]!,
+    triple: i => triples[i] ?? base.triple(i),
+    lifted: (i, b, c) => liftFlags[offsets[i]! + b * base.sizes[i]! + c] === 1,
+  }
 }
+
+interface EvidenceLattice extends Lattice {
+  /** Whether the move into item i, from option b to option c, was more probably a hand lift. */
+  lifted(i: number, b: number, c: number): boolean
+}
+
+/**
+ * A lift is marked as a position change of its own (where the fingers alone would not show one) only
+ * where it is at least one and a half times as likely as the hand staying on the keys: our choice, so
+ * that a borderline hesitation is left unmarked.
+ */
+const LIFT_MARGIN = TEMPERATURE * Math.log(1.5)
 
 /** A move whose timing gives a lift less than this chance is read as the hand staying on the keys. */
 const QUIET = 0.02
@@ -525,7 +548,7 @@ function liftTriple(baseTriple: ArrayLike<number>, moves: Uint8Array, pair: Floa
  * Writes item i's pair costs with its velocity and move evidence added to `costs`. A function of its
  * own, called once per item, so that the engine optimises this work within the first attempt graded.
  */
-function pairCosts(base: LineLattice, table: SpanRow[][], i: number, velocity: Float64Array, moveCost: Float64Array, lifted: Float64Array, costs: Float64Array): void {
+function pairCosts(base: LineLattice, table: SpanRow[][], i: number, velocity: Float64Array, moveCost: Float64Array, lifted: Float64Array, costs: Float64Array, liftFlags: Uint8Array): void {
   const basePair = base.pair(i)
   const sb = base.sizes[i - 1]!
   const sc = base.sizes[i]!
@@ -538,7 +561,8 @@ function pairCosts(base: LineLattice, table: SpanRow[][], i: number, velocity: F
         const j = b * sc + c
         const move = moves[j]!
         const stay = basePair[j]! + moveCost[move]!
-        costs[j] = velocity[c]! + (move === SHIFT ? lifted[c]! : move === IN_POSITION || move === REPEAT ? stay : either(stay, lifted[c]!))
+        liftFlags[j] = move === SHIFT || lifted[c]! < stay - LIFT_MARGIN ? 1 : 0
+        costs[j] = velocity[c]! + (move === SHIFT ? lifted[c]! : either(stay, lifted[c]!))
       }
     }
     return
@@ -583,6 +607,9 @@ export function inferFingering(hand: Hand, notes: PerformedNote[], handSize: Han
       fingers[n] = { finger, confidence: Math.min(1, Math.max(0, confidence)) }
     }
   }
-  const positions = touchPositionStarts(chosen, model.table).map(i => items[i]!.notes[0]!)
+  // A new position begins where the fingering makes one, and wherever the hand was heard to lift.
+  const starts = new Set(touchPositionStarts(chosen, model.table))
+  for (let i = 1; i < items.length; i++) if (lattice.lifted(i, path[i - 1]!, path[i]!)) starts.add(i)
+  const positions = [...starts].sort((a, b) => a - b).map(i => items[i]!.notes[0]!)
   return { fingers, positions }
 }

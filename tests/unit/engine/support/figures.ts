@@ -62,7 +62,7 @@ function sequences(): Figure[] {
       if (g > 0) risingLifts.push(rising.length)
       rising.push(white[start + g]!, white[start + g + 1]!, white[start + g + 2]!)
     }
-    out.push({ name: `rising threes from ${white[start]}`, category: 'sequence', midi: rising, fingers: rising.map((_, i) => ([1, 2, 3] as Finger[])[i % 3]!), lifts: risingLifts })
+    out.push({ name: `rising threes from ${white[start]}`, category: 'sequence', midi: rising, fingers: rising.map((_, i) => ([1, 2, 3] as Finger[])[i % 3]!), lifts: risingLifts, fingersTold: false })
     const falling: number[] = []
     const fallingLifts: number[] = []
     for (let g = 0; g < 4; g++) {
@@ -70,7 +70,7 @@ function sequences(): Figure[] {
       const top = start + 7 - g
       falling.push(white[top]!, white[top - 1]!, white[top - 2]!, white[top - 3]!)
     }
-    out.push({ name: `falling fours from ${white[start + 7]}`, category: 'sequence', midi: falling, fingers: falling.map((_, i) => ([5, 4, 3, 2] as Finger[])[i % 4]!), lifts: fallingLifts })
+    out.push({ name: `falling fours from ${white[start + 7]}`, category: 'sequence', midi: falling, fingers: falling.map((_, i) => ([5, 4, 3, 2] as Finger[])[i % 4]!), lifts: fallingLifts, fingersTold: false })
   }
   return out
 }

@@ -36,6 +36,11 @@ export interface Figure {
   beats?: number[]
   /** Indices of notes the hand lifts to (a new position reached through the air). */
   lifts?: number[]
+  /**
+   * False where the timing cannot tell the fingers, only where the hand moved: a group of three or
+   * four notes after a lift fits 1 2 3 as well as 2 3 4 (the player's choice, not the timing's).
+   */
+  fingersTold?: boolean
 }
 
 export interface Performance {

@@ -15,22 +15,34 @@ export interface Tally {
   performances: number
   /** Performances whose inferred set of position changes is exactly the player's. */
   positionsExact: number
+  /** Fingers the timing tells (see Figure.fingersTold), and how many the inference got right. */
   fingers: number
   fingersRight: number
+  /** Fingers the timing leaves open, and how many still came out as the player's. */
+  fingersOpen: number
+  fingersOpenRight: number
   /** Performances with no move out of position whose inference still found a position change. */
   clean: number
   cleanInvented: number
 }
 
-const empty = (): Tally => ({ performances: 0, positionsExact: 0, fingers: 0, fingersRight: 0, clean: 0, cleanInvented: 0 })
+const empty = (): Tally => ({ performances: 0, positionsExact: 0, fingers: 0, fingersRight: 0, fingersOpen: 0, fingersOpenRight: 0, clean: 0, cleanInvented: 0 })
 
 function add(into: Tally, performance: Performance, inferred: ReturnType<Infer>): void {
   into.performances++
   const found = inferred.positions
   if (found.length === performance.positions.length && found.every((p, i) => p === performance.positions[i])) into.positionsExact++
+  const told = performance.figure.fingersTold !== false
   performance.fingers.forEach((finger, i) => {
-    into.fingers++
-    if (inferred.fingers[i]?.finger === finger) into.fingersRight++
+    const right = inferred.fingers[i]?.finger === finger ? 1 : 0
+    if (told) {
+      into.fingers++
+      into.fingersRight += right
+    }
+    else {
+      into.fingersOpen++
+      into.fingersOpenRight += right
+    }
   })
   if (performance.positions.length === 0) {
     into.clean++
@@ -82,9 +94,9 @@ const percent = (part: number, whole: number): string => (whole === 0 ? '   – 
 
 /** The figures as lines of text, for the bench and for a failing test's message. */
 export function formatRecovery(recovery: Recovery): string[] {
-  const lines = ['  category     bpm  performances  positions exact  fingers right  clean with a change invented']
+  const lines = ['  category     bpm  performances  positions exact  fingers right  (open: as played)  clean with a change invented']
   const row = (label: string, t: Tally): string =>
-    `  ${label.padEnd(16)} ${String(t.performances).padStart(8)}  ${percent(t.positionsExact, t.performances).padStart(15)}  ${percent(t.fingersRight, t.fingers).padStart(13)}  ${t.clean === 0 ? '' : `${t.cleanInvented} of ${t.clean}`}`
+    `  ${label.padEnd(16)} ${String(t.performances).padStart(8)}  ${percent(t.positionsExact, t.performances).padStart(15)}  ${percent(t.fingersRight, t.fingers).padStart(13)}  ${percent(t.fingersOpenRight, t.fingersOpen).padStart(17)}  ${t.clean === 0 ? '' : `${t.cleanInvented} of ${t.clean}`}`
   for (const [key, tally] of [...recovery.decisive].sort(([a], [b]) => a.localeCompare(b, 'en', { numeric: true }))) lines.push(row(key, tally))
   lines.push(row('all decisive', recovery.all))
   lines.push(row('undecided', recovery.undecided))
