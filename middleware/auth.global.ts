@@ -1,7 +1,7 @@
 // Signed-out visitors go to sign-in; each role has its own home. The server checks roles again on every API call.
-const PUBLIC_PAGES = new Set(['/login', '/signup', '/forgot-password'])
+const PUBLIC_PAGES = new Set(['/login', '/signup', '/forgot-password', '/join'])
 // Pages that e-mailed links open: they work signed in or out, and for a guardian who has no account.
-const LINK_PAGES = new Set(['/reset-password', '/confirm-email', '/unsubscribe'])
+const LINK_PAGES = new Set(['/reset-password', '/confirm-email', '/unsubscribe', '/invitation'])
 const ROLE_HOME = { teacher: '/teacher', student: '/student', admin: '/teacher' } as const
 
 export default defineNuxtRouteMiddleware((to) => {

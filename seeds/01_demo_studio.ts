@@ -5,6 +5,7 @@ import { ENGINE_VERSION, gradeAttempt } from '../shared/engine'
 import { hashPassword } from '../scripts/lib/password'
 import { assignments, classes, DEMO_PASSWORD, drills, drillSets, students, teacher } from './demo/studio'
 import { performDrill, randomSource } from './demo/performance'
+import { endOfDueDay } from '../shared/utils/dueDate'
 
 const DAY_MS = 86_400_000
 
@@ -53,7 +54,8 @@ export async function seed(knex: Knex): Promise<void> {
         drill_set_id: setIds[a.set], assigned_by: teacherId, note: a.note,
         class_id: a.className ? classIds.get(a.className) : null,
         student_id: a.studentEmail ? studentIds.get(a.studentEmail) : null,
-        due_at: new Date(now + a.dueInDays * DAY_MS),
+        // The demo studio keeps UTC: the due day ends at midnight UTC.
+        ...dueOnDay(new Date(now + a.dueInDays * DAY_MS)),
         created_at: new Date(now - 24 * DAY_MS),
       })
       const members = a.className ? classes.find(c => c.name === a.className)!.members : [a.studentEmail!]
@@ -82,4 +84,9 @@ export async function seed(knex: Knex): Promise<void> {
     }
     if (teacherId) console.error(`seeded the demo studio: ${students.length} students, ${drills.length} drills`)
   })
+}
+
+function dueOnDay(day: Date): { due_on: string, time_zone: string, due_at: Date } {
+  const dueOn = day.toISOString().slice(0, 10)
+  return { due_on: dueOn, time_zone: 'UTC', due_at: endOfDueDay(dueOn, 'UTC') }
 }

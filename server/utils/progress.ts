@@ -4,12 +4,14 @@ import { z } from 'zod'
 import { stringify } from 'csv-stringify/sync'
 
 export interface ProgressCell {
+  /** Whether a set holding this drill reaches the student (through the class or on their own). */
+  assigned: boolean
   attempts: number
   best: number | null
   latest: number | null
   /** Latest score minus the mean of the up to four attempts before it; null with fewer than two attempts. */
   trend: number | null
-  /** Past the due date of an assignment holding this drill without reaching its target score. */
+  /** Past the due date of an assignment reaching this student with this drill, without reaching its target score. */
   overdue: boolean
 }
 
@@ -17,27 +19,39 @@ export interface ClassProgress {
   classId: number
   className: string
   students: { id: number, name: string }[]
-  drills: { id: number, title: string, kind: string, targetScore: number | null, dueAt: string | null }[]
+  /** Drills of the class's assignments and of assignments made to one of its students; `dueAt` is the class-wide one. */
+  drills: { id: number, title: string, kind: string, targetScore: number | null, dueAt: string | null, forSomeOnly: boolean }[]
   /** cells[studentId][drillId] */
   cells: Record<number, Record<number, ProgressCell>>
 }
 
+interface ItemRow { id: number, title: string, kind: string, target_score: number | null, due_at: Date | null, student_id: number | null }
+
 /** Students × drills of one class: what a teacher reads at a glance before a lesson. */
-export async function classProgress(db: Knex, classId: number, className: string, now = Date.now()): Promise<ClassProgress> {
+export async function classProgress(db: Knex, teacherId: number, classId: number, className: string, now = Date.now()): Promise<ClassProgress> {
   const students: { id: number, name: string }[] = await db('class_members as m').join('users as u', 'u.id', 'm.student_id')
     .where('m.class_id', classId).orderBy('u.name').select('u.id', 'u.name')
-  const items: { id: number, title: string, kind: string, target_score: number | null, due_at: Date | null }[] = await db('assignments as a')
+  const studentIds = students.map(s => Number(s.id))
+  // The class's own assignments, and this teacher's assignments to one of its students.
+  const items: ItemRow[] = await db('assignments as a')
     .join('drill_set_items as i', 'i.drill_set_id', 'a.drill_set_id').join('drills as d', 'd.id', 'i.drill_id')
-    .where('a.class_id', classId).orderBy([{ column: 'a.due_at' }, { column: 'i.position' }])
-    .select('d.id', 'd.title', 'd.kind', 'i.target_score', 'a.due_at')
+    .where(q => q.where('a.class_id', classId).orWhere(w => w.whereIn('a.student_id', studentIds).where('a.assigned_by', teacherId)))
+    .orderBy([{ column: 'a.student_id' }, { column: 'a.due_at' }, { column: 'i.position' }])
+    .select('d.id', 'd.title', 'd.kind', 'i.target_score', 'a.due_at', 'a.student_id')
   const drills = new Map<number, ClassProgress['drills'][number]>()
   for (const it of items) {
-    if (!drills.has(Number(it.id))) {
-      drills.set(Number(it.id), { id: Number(it.id), title: it.title, kind: it.kind, targetScore: it.target_score, dueAt: it.due_at ? new Date(it.due_at).toISOString() : null })
+    const id = Number(it.id)
+    const classWide = it.student_id === null
+    const known = drills.get(id)
+    if (!known) {
+      drills.set(id, { id, title: it.title, kind: it.kind, targetScore: it.target_score, dueAt: classWide && it.due_at ? new Date(it.due_at).toISOString() : null, forSomeOnly: !classWide })
+    }
+    else if (classWide && known.forSomeOnly) {
+      Object.assign(known, { forSomeOnly: false, targetScore: it.target_score, dueAt: it.due_at ? new Date(it.due_at).toISOString() : null })
     }
   }
   const attempts: { student_id: number, drill_id: number, score: number }[] = students.length && drills.size
-    ? await db('attempts').whereIn('student_id', students.map(s => s.id)).whereIn('drill_id', [...drills.keys()])
+    ? await db('attempts').whereIn('student_id', studentIds).whereIn('drill_id', [...drills.keys()])
         .orderBy('started_at').select('student_id', 'drill_id', 'score')
     : []
   const scores = new Map<string, number[]>()
@@ -48,28 +62,34 @@ export async function classProgress(db: Knex, classId: number, className: string
   const cells: ClassProgress['cells'] = {}
   for (const s of students) {
     cells[s.id] = {}
+    // The assignments that reach this student: the class's, and the ones made to them alone.
+    const reaching = items.filter(it => it.student_id === null || Number(it.student_id) === Number(s.id))
     for (const d of drills.values()) {
       const list = scores.get(`${s.id}:${d.id}`) ?? []
       const best = list.length ? Math.max(...list) : null
       const before = list.slice(-5, -1)
+      const dues = reaching.filter(it => Number(it.id) === d.id)
       cells[s.id]![d.id] = {
+        assigned: dues.length > 0,
         attempts: list.length,
         best,
         latest: list.at(-1) ?? null,
         trend: before.length ? list.at(-1)! - before.reduce((x, y) => x + y, 0) / before.length : null,
-        overdue: d.dueAt !== null && Date.parse(d.dueAt) < now && (best === null || best < (d.targetScore ?? 0)),
+        overdue: dues.some(it => it.due_at !== null && new Date(it.due_at).getTime() < now && (best === null || best < (it.target_score ?? 0))),
       }
     }
   }
   return { classId, className, students, drills: [...drills.values()], cells }
 }
 
-/** One row per student and drill, for a spreadsheet: RFC 4180 quoting, and text cells that a spreadsheet would read as a formula prefixed with '. */
+/** One row per student and drill assigned to them, for a spreadsheet: RFC 4180 quoting, and text cells that a spreadsheet would read as a formula prefixed with '. */
 export function progressCsv(p: ClassProgress): string {
   const rows: (string | number | null)[][] = [['class', 'student', 'drill', 'attempts', 'best', 'latest', 'trend', 'overdue']]
   for (const s of p.students) {
     for (const d of p.drills) {
       const c = p.cells[s.id]![d.id]!
+      // A drill given to another student alone is no row of this one's.
+      if (!c.assigned) continue
       rows.push([p.className, s.name, d.title, c.attempts, c.best, c.latest, c.trend === null ? null : Math.round(c.trend), c.overdue ? 'yes' : 'no'])
     }
   }
@@ -85,5 +105,5 @@ export async function ownClassProgress(event: H3Event): Promise<ClassProgress> {
   const db = useDb()
   const row = await db('classes').where({ id, teacher_id: teacher.id }).first('name')
   if (!row) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'Class not found' })
-  return classProgress(db, id, row.name)
+  return classProgress(db, teacher.id, id, row.name)
 }

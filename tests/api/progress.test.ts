@@ -5,8 +5,8 @@ afterAll(closeTestDb)
 
 interface Progress {
   students: { id: number, name: string }[]
-  drills: { id: number, title: string }[]
-  cells: Record<string, Record<string, { attempts: number, best: number | null, latest: number | null, trend: number | null, overdue: boolean }>>
+  drills: { id: number, title: string, forSomeOnly: boolean }[]
+  cells: Record<string, Record<string, { assigned: boolean, attempts: number, best: number | null, latest: number | null, trend: number | null, overdue: boolean }>>
 }
 
 async function tuesdayId(): Promise<number> {
@@ -20,7 +20,17 @@ describe('class progress', () => {
     const res = await teacher.get<Progress>(`/api/classes/${id}/progress`)
     expect(res.status).toBe(200)
     expect(res.body.students.map(s => s.name)).toEqual(['Ada Lindqvist', 'Noor Castellan', 'Theo Marchetti'])
-    expect(res.body.drills).toHaveLength(3)
+    // The class's set (three drills) and the set Noor was given alone (three more), which only Noor's row holds.
+    expect(res.body.drills.filter(d => !d.forSomeOnly)).toHaveLength(3)
+    const own = res.body.drills.filter(d => d.forSomeOnly)
+    expect(own.map(d => d.title)).toEqual(['F major scale, left hand', 'A minor arpeggio, left hand', 'Five-finger pattern in G, left hand'])
+    const noor = res.body.students.find(s => s.name === 'Noor Castellan')!
+    const ada = res.body.students.find(s => s.name === 'Ada Lindqvist')!
+    expect(own.map(d => res.body.cells[noor.id]![d.id]!.assigned)).toEqual([true, true, true])
+    expect(own.map(d => res.body.cells[ada.id]![d.id]!.assigned)).toEqual([false, false, false])
+    const noorsOwn = await testDb()('attempts').where({ student_id: noor.id, drill_id: own[0]!.id })
+    expect(res.body.cells[noor.id]![own[0]!.id]!.attempts).toBe(noorsOwn.length)
+    expect(noorsOwn.length).toBeGreaterThan(0)
     const theo = res.body.students.find(s => s.name === 'Theo Marchetti')!
     const drill = res.body.drills[0]!
     const stored = await testDb()('attempts').where({ student_id: theo.id, drill_id: drill.id }).orderBy('started_at')
@@ -51,9 +61,10 @@ describe('class progress', () => {
     const teacher = await new Client().signIn('teacher@evenhand.test')
     const res = await teacher.get<Progress>(`/api/classes/${classId}/progress`)
     expect(res.status).toBe(200)
-    const items: { drill_id: number, target_score: number | null, due_at: Date }[] = await db('assignments as a')
-      .join('drill_set_items as i', 'i.drill_set_id', 'a.drill_set_id').where('a.class_id', classId)
-      .orderBy([{ column: 'a.due_at' }, { column: 'i.position' }]).select('i.drill_id', 'i.target_score', 'a.due_at')
+    const items: { drill_id: number, target_score: number | null, due_at: Date, student_id: number | null }[] = await db('assignments as a')
+      .join('drill_set_items as i', 'i.drill_set_id', 'a.drill_set_id')
+      .where(q => q.where('a.class_id', classId).orWhereIn('a.student_id', res.body.students.map(s => s.id)))
+      .select('i.drill_id', 'i.target_score', 'a.due_at', 'a.student_id')
     const trends: (number | null)[] = []
     const overdue: boolean[] = []
     for (const student of res.body.students) {
@@ -61,10 +72,10 @@ describe('class progress', () => {
         const scores = (await db('attempts').where({ student_id: student.id, drill_id: drill.id }).orderBy('started_at').select('score')).map(r => Number(r.score))
         const before = scores.slice(-5, -1)
         const wantTrend = before.length ? scores.at(-1)! - before.reduce((a, b) => a + b, 0) / before.length : null
-        // The earliest assignment that holds the drill decides its due date and target.
-        const item = items.find(i => Number(i.drill_id) === drill.id)!
+        // Any assignment that reaches this student with the drill (the class's or their own) can make it overdue.
+        const reaching = items.filter(i => Number(i.drill_id) === drill.id && (i.student_id === null || Number(i.student_id) === student.id))
         const best = scores.length ? Math.max(...scores) : null
-        const wantOverdue = new Date(item.due_at).getTime() < Date.now() && (best === null || best < (item.target_score ?? 0))
+        const wantOverdue = reaching.some(item => new Date(item.due_at).getTime() < Date.now() && (best === null || best < (item.target_score ?? 0)))
         const cell = res.body.cells[student.id]![drill.id]!
         if (wantTrend === null) expect(cell.trend).toBeNull()
         else expect(cell.trend).toBeCloseTo(wantTrend, 6)
@@ -86,7 +97,9 @@ describe('class progress', () => {
     expect(res.headers.get('content-type')).toMatch(/text\/csv/)
     const lines = String(res.body).trimEnd().split('\r\n')
     expect(lines[0]).toBe('class,student,drill,attempts,best,latest,trend,overdue')
-    expect(lines).toHaveLength(1 + 3 * 3)
+    // Three students × the class's three drills, and Noor's rows for the three drills given to her alone.
+    expect(lines).toHaveLength(1 + 3 * 3 + 3)
+    expect(lines.filter(l => l.includes('"F major scale, left hand"')).map(l => l.split(',')[1])).toEqual(['Noor Castellan'])
     // A drill title with a comma is quoted, as RFC 4180 asks.
     expect(lines[1]).toMatch(/^Tuesday Starters,Ada Lindqvist,"[^"]+, right hand",\d+,/)
   })

@@ -1,23 +1,22 @@
 import { RegisterInput } from '#shared/types/account'
+import { RegisterRole, StudentRegisterInput } from '#shared/types/classes'
 
-// Sign-up makes teachers only: students join through a class code or an invitation, admins from the command line.
+// Sign-up makes teachers, or students who bring a class code; invited students sign up through
+// their invitation, admins from the command line.
 export default defineEventHandler(async (event) => {
-  const input = await validBody(event, RegisterInput)
+  const { role } = await validBody(event, RegisterRole)
+  const student = role === 'student' ? await validBody(event, StudentRegisterInput) : null
+  const input = student ?? await validBody(event, RegisterInput)
   const db = useDb()
   const passwordHash = await hashPassword(input.password)
-  let id: number
-  try {
-    const [inserted] = await db('users').insert({ email: input.email, name: input.name, password_hash: passwordHash, role: 'teacher' })
-    id = Number(inserted)
-  }
-  catch (error) {
-    if ((error as { code?: string }).code === 'ER_DUP_ENTRY') {
-      throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'email: An account with this e-mail already exists' })
-    }
-    throw error
-  }
-  const user = { id, email: input.email, name: input.name, role: 'teacher' as const }
+  const joined = await db.transaction(async (trx) => {
+    const cls = student ? await classByCode(trx, student.joinCode) : null
+    const id = await insertUser(trx, { email: input.email, name: input.name, passwordHash, role })
+    if (cls) await addMember(trx, cls.id, id)
+    return { id, cls }
+  })
+  const user = { id: joined.id, email: input.email, name: input.name, role }
   await setUserSession(event, { user, loggedInAt: Date.now() })
   setResponseStatus(event, 201)
-  return { user }
+  return joined.cls ? { user, class: joined.cls } : { user }
 })

@@ -1,0 +1,7 @@
+import { IdParams } from '#shared/types/drillSet'
+
+export default defineEventHandler(async (event) => {
+  const teacher = await requireRole(event, 'teacher')
+  const { id } = validParams(event, IdParams)
+  return { drillSet: await describeDrillSet(useDb(), teacher.id, id) }
+})
