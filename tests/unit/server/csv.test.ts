@@ -7,8 +7,8 @@ function progress(studentName: string, drillTitle: string, trend: number | null)
     classId: 1,
     className: 'Class',
     students: [{ id: 1, name: studentName }],
-    drills: [{ id: 2, title: drillTitle, kind: 'scale', targetScore: 80, dueAt: null }],
-    cells: { 1: { 2: { attempts: 3, best: 90, latest: 85, trend, overdue: false } } },
+    drills: [{ id: 2, title: drillTitle, kind: 'scale', targetScore: 80, dueAt: null, forSomeOnly: false }],
+    cells: { 1: { 2: { assigned: true, attempts: 3, best: 90, latest: 85, trend, overdue: false } } },
   }
 }
 
