@@ -139,6 +139,7 @@ async function teachesStudent(db: Db, teacherId: number, studentId: number): Pro
 }
 
 export interface AssignmentTarget {
+  setTitle: string
   classId: number | null
   studentId: number | null
   /** Students the assignment reaches now, for the e-mail. */
@@ -147,7 +148,7 @@ export interface AssignmentTarget {
 
 /** Checks that the teacher owns the set and the class (or teaches the student); 404 for what is not theirs, 409 for what is archived. */
 export async function assignmentTarget(db: Db, teacherId: number, input: { drillSetId: number, classId?: number, studentId?: number }): Promise<AssignmentTarget> {
-  const set = await db('drill_sets').where({ id: input.drillSetId, owner_id: teacherId }).first('archived_at')
+  const set = await db('drill_sets').where({ id: input.drillSetId, owner_id: teacherId }).first('title', 'archived_at')
   if (!set) throw notFound('Drill set')
   if (set.archived_at) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'drillSetId: This drill set is archived' })
   if (input.classId !== undefined) {
@@ -155,12 +156,12 @@ export async function assignmentTarget(db: Db, teacherId: number, input: { drill
     if (!cls) throw notFound('Class')
     if (cls.archived_at) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'classId: This class is archived' })
     const students = await db('class_members as m').join('users as u', 'u.id', 'm.student_id').where('m.class_id', input.classId).select('u.id', 'u.name', 'u.email')
-    return { classId: input.classId, studentId: null, students: students.map(s => ({ id: Number(s.id), name: s.name, email: s.email })) }
+    return { setTitle: set.title, classId: input.classId, studentId: null, students: students.map(s => ({ id: Number(s.id), name: s.name, email: s.email })) }
   }
   const studentId = input.studentId!
   if (!(await teachesStudent(db, teacherId, studentId))) throw notFound('Student')
   const student = await db('users').where({ id: studentId }).first('id', 'name', 'email')
-  return { classId: null, studentId, students: [{ id: Number(student.id), name: student.name, email: student.email }] }
+  return { setTitle: set.title, classId: null, studentId, students: [{ id: Number(student.id), name: student.name, email: student.email }] }
 }
 
 /** Stores a new assignment; the e-mail to each student it reaches is queued in the same transaction. */
@@ -178,6 +179,13 @@ export async function createAssignment(db: Knex, teacher: { id: number, name: st
       due_at: endOfDueDay(input.dueOn, timeZone),
       note: input.note || null,
     })
+    for (const student of target.students) {
+      await queueMail(trx, {
+        to: student.email,
+        template: 'assignment',
+        data: { studentName: student.name, teacherName: teacher.name, setTitle: target.setTitle, dueOn: input.dueOn, note: input.note || null, link: appLink('/student') },
+      })
+    }
     return Number(id)
   })
 }

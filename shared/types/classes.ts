@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { Email, RegisterInput } from './account'
+import { Email, LinkToken, RegisterInput } from './account'
 
 export const ClassName = z.string().trim().min(1, { error: 'Give the class a name' }).max(120, { error: 'At most 120 characters' })
 
@@ -36,3 +36,14 @@ export type StudentRegisterInput = z.infer<typeof StudentRegisterInput>
 
 /** Who a sign-up is for; without `role` it opens a teacher's studio, as it always has. */
 export const RegisterRole = z.object({ role: z.enum(['teacher', 'student'], { error: 'role: teacher or student' }).default('teacher') })
+
+export const InvitationLookup = z.object({ token: LinkToken })
+
+export const InvitationAccept = z.object({
+  token: LinkToken,
+  /** Asked only when the invited address has no account yet. */
+  name: z.string().trim().max(120, { error: 'At most 120 characters' }).optional(),
+  /** A new account's password, or the existing account's. */
+  password: z.string().min(1, { error: 'Enter a password' }).max(200, { error: 'Password must be at most 200 characters' }),
+})
+export type InvitationAccept = z.infer<typeof InvitationAccept>

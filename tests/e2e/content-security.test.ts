@@ -43,6 +43,7 @@ const PAGES: Record<string, PageCase> = {
   'signup': { who: 'anonymous', visit: goto(() => '/signup') },
   'forgot-password': { who: 'anonymous', visit: goto(() => '/forgot-password') },
   'reset-password': { who: 'anonymous', visit: goto(() => '/reset-password?token=not-a-real-token') },
+  'invitation': { who: 'anonymous', visit: goto(() => '/invitation?token=not-a-real-token-but-long-enough') },
   'join': { who: 'anonymous', visit: goto(() => '/join?code=TUE4KQ') },
   'teacher/index': { who: 'teacher', visit: goto(() => '/teacher') },
   'teacher/classes/index': { who: 'teacher', visit: goto(() => '/teacher/classes') },
