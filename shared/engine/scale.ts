@@ -49,6 +49,33 @@ function classPhases(keys: number[]): number[] | null {
   return phases
 }
 
+/** A run fingered one finger per phase: a scale, or an arpeggio (a broken chord over at least an octave). */
+export type RunKind = 'scale' | 'arpeggio'
+
+/** The widest step between neighbouring notes of an arpeggio: a fourth (a triad's inversions leap by one). */
+const ARPEGGIO_STEP = 5
+
+/**
+ * An arpeggio run: three or four pitch classes (a triad, a seventh chord), every step to the
+ * neighbouring class of the set by at most a fourth, over at least an octave. Its phases are the pitch
+ * classes (common practice: the printed arpeggios give each chord note one finger, up and down, the
+ * turns aside). Otherwise null.
+ */
+export function arpeggioPhases(keys: number[]): number[] | null {
+  if (Math.max(...keys) - Math.min(...keys) < 12) return null
+  const classes = pitchClasses(keys)
+  if (classes.length < 3 || classes.length > 4) return null
+  const rank = new Map(classes.map((c, i) => [c, i]))
+  const phases = keys.map(k => rank.get(pitchClass(k))!)
+  for (let i = 1; i < keys.length; i++) {
+    const step = keys[i]! - keys[i - 1]!
+    const moved = (phases[i]! - phases[i - 1]! + classes.length) % classes.length
+    const neighbour = (step > 0 && moved === 1) || (step < 0 && moved === classes.length - 1)
+    if (!neighbour || Math.abs(step) > ARPEGGIO_STEP) return null
+  }
+  return phases
+}
+
 const DEGREES = 7
 
 /**
@@ -101,13 +128,21 @@ function freeEdges(keys: number[]): boolean[] {
   return edge.map((e, i) => e && [i - 2, i - 1, i + 1, i + 2].every(j => !edge[j]))
 }
 
-/** The fingers a note may take under a pattern: its own, or at a free edge any that avoids the pattern's crossing. */
-function allowedFinger(keys: number[], free: boolean[], fingerAt: (i: number) => Finger, i: number, f: Finger): boolean {
+/**
+ * The fingers a note may take under a pattern: its own, or at a free edge any that avoids the
+ * pattern's crossing. An arpeggio's edge must avoid it where a finger can (common practice: a printed
+ * arpeggio starts and ends in position, the left hand's C major on 5, not on a thumb with 4 crossing
+ * over; the thumb on a black key is no such finger), while a scale's edge may keep its pattern where
+ * the model finds that cheaper.
+ */
+function allowedFinger(keys: number[], free: boolean[], fingerAt: (i: number) => Finger, i: number, f: Finger, kind: RunKind): boolean {
   const own = fingerAt(i)
-  if (f === own) return true
-  if (!free[i]) return false
   const crossesNeighbour = (g: Finger): boolean =>
     [i - 1, i + 1].some(j => j >= 0 && j < keys.length && crosses(fingerAt(j), keys[j]!, g, keys[i]!))
+  // The thumb on a black key is no way out: the printed D♭ major starts 4 1 with the thumb passing at once.
+  const avoids = (g: Finger): boolean => !crossesNeighbour(g) && !(g === 1 && isBlackKey(keys[i]!))
+  if (f === own) return kind === 'scale' || !free[i] || !crossesNeighbour(own) || !FINGERS.some(avoids)
+  if (!free[i]) return false
   return crossesNeighbour(own) && !crossesNeighbour(f)
 }
 
@@ -128,7 +163,7 @@ type Cost = (finger: (i: number) => Finger) => number
  * its neighbours' pattern), so the search is a second-order chain around the circle of phases:
  * exact over all 5^m patterns at a cost of about 25 · m · 125 steps after one pass over the line.
  */
-export function scaleFingering(keys: number[], phases: number[], model: CostModel): ScaleFingering {
+export function scaleFingering(keys: number[], phases: number[], model: CostModel, kind: RunKind = 'scale'): ScaleFingering {
   const m = Math.max(...phases) + 1
   const free = freeEdges(keys)
   // windows[c][(a · 5 + b) · 5 + d]: costs that depend on the fingers a, b, d of phases c − 1, c, c + 1.
@@ -156,7 +191,7 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
       }
       let best = Infinity
       for (const f of FINGERS) {
-        if (!allowedFinger(keys, free, patternFinger, edge, f)) continue
+        if (!allowedFinger(keys, free, patternFinger, edge, f, kind)) continue
         best = Math.min(best, cost(i => (i === edge ? f : patternFinger(i))))
       }
       window[j] = window[j]! + best
@@ -172,9 +207,9 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
   // A free edge's terms go together, so that its finger is chosen once for all of them. Terms repeat
   // with every octave and every turn of the run: a term (or an edge's group) is fixed by its notes'
   // classes and the steps between them, so each distinct one is added once, times its repetitions.
-  // A number per shape: each note's phase (below 12) and step from the one before (−3 … 3) in base 84, then the count.
+  // A number per shape: each note's phase (below 12) and step from the one before (−12 … 12) in base 300, then the count.
   const shapeOf = (notes: number[]): number =>
-    notes.reduce((code, i, j) => code * 84 + phases[i]! * 7 + (j === 0 ? 0 : keys[i]! - keys[notes[j - 1]!]! + 3), 0) * 8 + notes.length
+    notes.reduce((code, i, j) => code * 300 + phases[i]! * 25 + (j === 0 ? 0 : keys[i]! - keys[notes[j - 1]!]! + 12), 0) * 8 + notes.length
   const repeated = new Map<number, { notes: number[], cost: Cost, count: number }>()
   const count = (shape: number, notes: number[], cost: Cost): void => {
     const seen = repeated.get(shape)
@@ -201,11 +236,18 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
     count(shape, notes, finger => group.costs.reduce((sum, cost) => sum + cost(finger), 0))
   }
   for (const { notes, cost, count } of repeated.values()) addTerm(notes, finger => count * cost(finger))
-  addConventions(windows, keys, phases)
+  addConventions(windows, keys, phases, kind)
   const pattern = cheapestCycle(windows)
   const fingerAt = (i: number): Finger => pattern[phases[i]!]!
-  return { allowed: (i, f) => allowedFinger(keys, free, fingerAt, i, f) }
+  return { allowed: (i, f) => allowedFinger(keys, free, fingerAt, i, f, kind) }
 }
+
+/**
+ * The thumb passes under 3 across a fourth and under 4 across a third in arpeggios (common practice,
+ * from memory: root positions 1 2 3 5, inversions and seventh chords 1 2 4 5 and 1 2 3 4, the same in
+ * the left hand's mirror image). In semitones, the smallest passing that takes 3.
+ */
+const PASS_UNDER_THREE = 5
 
 /**
  * Scale conventions of the printed tables (common practice), charged per note of the run so that they
@@ -220,12 +262,15 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
  *   F); the span rules alone would let the left hand cross 4 before the fifth degree in long runs;
  * - between thumbs the fingers follow one another (1 2 3, 1 2 3 4), never skipping one, which the span
  *   rules would trade at the harmonic minor's augmented second (4 then 2 in the left hand).
+ * An arpeggio keeps the thumb off black keys and on its first class when white, as a scale does, takes
+ * no gap rule (1 2 4 is its usual shape), and passes the thumb under 3 or 4 by the width of the pass
+ * (PASS_UNDER_THREE).
  * A chromatic run (all twelve classes) has no keynote to meet on; instead every black key takes 3
  * (common practice, from memory: the usual chromatic fingering, 3 on the black keys and the thumb on
  * the white ones, 2 where two white keys meet), which the span rules alone, counting thumb passes,
  * would trade for 4s.
  */
-function addConventions(windows: Float64Array[], keys: number[], phases: number[]): void {
+function addConventions(windows: Float64Array[], keys: number[], phases: number[], kind: RunKind): void {
   const m = windows.length
   const chromatic = m === 12
   // Per phase, how many of its notes fall on white keys and on black ones: a melodic minor's degree
@@ -239,8 +284,12 @@ function addConventions(windows: Float64Array[], keys: number[], phases: number[
   const fourth = m === 7 && !isBlackKey(keynoteClass) && !isBlackKey(fourthClass)
     ? phases[keys.findIndex(k => pitchClass(k) === fourthClass)] ?? -1
     : -1
+  const classes = pitchClasses(keys)
   for (let phase = 0; phase < m; phase++) {
     const notes = white[phase]! + black[phase]!
+    // The arpeggio's thumb passing into this phase: from the class below, a third or a fourth away.
+    const passing = (classes[phase]! - classes[(phase + m - 1) % m]! + 12) % 12
+    const passFinger = passing >= PASS_UNDER_THREE ? 3 : 4
     const below = (phase + m - 1) % m
     const fromWhite = white[below]! / (white[below]! + black[below]!)
     const window = windows[phase]!
@@ -250,7 +299,8 @@ function addConventions(windows: Float64Array[], keys: number[], phases: number[
       const thumb = finger === 1
       let points = 0
       if (thumb) points += CONVENTION_POINTS * black[phase]! + WHITE_PASS_POINTS * fromWhite * notes
-      else if (!chromatic && fingerBelow !== finger - 1) points += CONVENTION_POINTS * notes
+      else if (kind === 'scale' && !chromatic && fingerBelow !== finger - 1) points += CONVENTION_POINTS * notes
+      if (kind === 'arpeggio' && thumb && fingerBelow !== 1 && fingerBelow !== passFinger) points += CONVENTION_POINTS * notes
       if (chromatic) {
         if (finger !== 3) points += CONVENTION_POINTS * black[phase]!
       }

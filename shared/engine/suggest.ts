@@ -1,19 +1,69 @@
 // The cheapest fingering of a one-hand line or chord sequence under the ergonomic model.
 import { cheapestPath, pathCost, type Lattice } from './chain'
-import { costModel } from './costs'
+import { costModel, type CostModel } from './costs'
 import { positionStarts } from './positions'
 import { isBlackKey, keyCenterMm, WHITE_KEY_MM } from './keys'
 import { chosenTouches, lineLattice, withOptionPenalty } from './lattice'
-import { FORBIDDEN, scaleFingering, scalePhases } from './scale'
+import { arpeggioPhases, FORBIDDEN, scaleFingering, scalePhases } from './scale'
 import { itemKeys, itemPitchesLowToHigh, toRightHandSpace, type Touch } from './touches'
 import type { Emphasis, Finger, Hand, LineItem, SuggestInput, SuggestResult } from './types'
 
 /**
- * Points for each note of a sequence that leaves the fingering its repetitions share. About one
- * thumb pass: enough to make a sequence's groups agree when the free optimum wavers between equal
- * choices, too little to force an awkward fingering on the first or last group (our own choice).
+ * Points for each note of a sequence that leaves the fingering its repetitions share. As much as a
+ * scale convention (scale.ts): every group of a sequence whose key colours repeat is taught with one
+ * fingering (common practice), the last group included, and since the groups meet the same keys the
+ * shared fingering is as playable in each.
  */
-const CONSISTENCY_POINTS = 2
+const CONSISTENCY_POINTS = 10
+
+/**
+ * A trill or alternation: at least five notes alternating between two keys at most a minor third apart
+ * (four notes, B A B A, are as often two groups of a sequence; wider alternations are leaps, which
+ * neighbouring fingers do not span). It stays in one position
+ * on two neighbouring strong fingers (common practice: 1–2 or 2–3, never 4–5, never a thumb crossing
+ * inside it), so in right-hand space its lower key takes 1 or 2 and its upper key 2 or 3.
+ */
+const ALTERNATION_NOTES = 5
+const ALTERNATION_SPAN = 3
+
+/**
+ * A broken chord within one hand's reach: three to five different keys no more than an octave apart,
+ * every move a leap of at least a minor third (or a repeated key), such as C E G E C or an Alberti bass
+ * C G E G. It is fingered as the same keys struck together (common practice: a broken chord keeps its
+ * block chord's fingers, C E G with 1 3 5, E G C with 1 2 5); returns each key's finger, or null.
+ */
+function brokenChordFingers(keys: number[], model: CostModel): Map<number, Finger> | null {
+  const distinct = [...new Set(keys)].sort((a, b) => a - b)
+  if (distinct.length < 3 || distinct.length > 5 || distinct[distinct.length - 1]! - distinct[0]! > 12) return null
+  for (let i = 1; i < keys.length; i++) {
+    const step = Math.abs(keys[i]! - keys[i - 1]!)
+    if (step !== 0 && step < 3) return null
+  }
+  const chord = lineLattice([distinct], model)
+  const [option] = cheapestPath(chord).path
+  const fingers = chord.options[0]![option!]!
+  return new Map(distinct.map((k, j) => [k, fingers[j]!]))
+}
+
+/** A cost this large means a move beyond reach or one finger on two keys (LEGATO_WEIGHTS: 1000). */
+const UNPLAYABLE = 1000
+
+/** For each note, the fingers an alternation allows it, or null outside one. */
+export function alternationFingers(keys: number[]): (readonly Finger[] | null)[] {
+  const allowed: (readonly Finger[] | null)[] = keys.map(() => null)
+  let start = 0
+  for (let i = 1; i <= keys.length; i++) {
+    const alternates = i < keys.length && keys[i] !== keys[i - 1] && Math.abs(keys[i]! - keys[i - 1]!) <= ALTERNATION_SPAN
+      && (i - start < 2 || keys[i] === keys[i - 2])
+    if (alternates) continue
+    if (i - start >= ALTERNATION_NOTES) {
+      const low = Math.min(keys[start]!, keys[start + 1]!)
+      for (let j = start; j < i; j++) allowed[j] = keys[j] === low ? [1, 2] : [2, 3]
+    }
+    start = i - 1
+  }
+  return allowed
+}
 
 /**
  * Emphasis (common practice): the thumb is the heaviest finger, so a soft note between two others is
@@ -106,17 +156,32 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
     ? withPenalty(plain, (i, f) => (Array.isArray(notes[i]) ? 0 : emphasisPoints(emphasis![i], f, i > 0 && i < notes.length - 1)))
     : plain
   const line = keys.every(k => k.length === 1) ? keys.map(k => k[0]!) : null
-  const phases = line ? scalePhases(line) : null
-  const period = line && !phases ? sequencePeriod(line) : 0
+  const trill = line ? alternationFingers(line) : null
+  const hasTrill = trill?.some(a => a !== null) ?? false
+  // A trill is no scale or arpeggio run: its notes keep their two fingers whatever the run's pattern.
+  const scale = line && !hasTrill ? scalePhases(line) : null
+  const arpeggio = line && !scale && !hasTrill ? arpeggioPhases(line) : null
+  const phases = scale ?? arpeggio
+  const broken = line && !phases && !hasTrill ? brokenChordFingers(line, costModel(handSize)) : null
+  const period = line && !phases && !hasTrill && !broken ? sequencePeriod(line) : 0
   let path: number[]
   if (line && phases) {
-    // A scale: one finger per pitch class, the pattern chosen by search over the whole run (scale.ts).
-    const { allowed } = scaleFingering(line, phases, costModel(handSize))
+    // A scale or an arpeggio: one finger per pitch class, the pattern chosen by search over the whole run (scale.ts).
+    const { allowed } = scaleFingering(line, phases, costModel(handSize), scale ? 'scale' : 'arpeggio')
     path = cheapestPath(withPenalty(lattice, (i, f) => (allowed(i, f) ? 0 : FORBIDDEN))).path
+  }
+  else if (broken) {
+    // Unless the block chord's fingers cannot join the notes (a small hand's reach): then the free optimum.
+    const asChord = cheapestPath(withPenalty(lattice, (i, f) => (broken.get(line![i]!) === f ? 0 : FORBIDDEN)))
+    const free = cheapestPath(lattice)
+    path = asChord.cost >= UNPLAYABLE && free.cost < UNPLAYABLE ? free.path : asChord.path
+  }
+  else if (hasTrill) {
+    path = cheapestPath(withPenalty(lattice, (i, f) => (trill![i] && !trill![i]!.includes(f) ? FORBIDDEN : 0))).path
   }
   else if (period > 0) {
     // A drill sequence is taught with one fingering for every group, so the free optimum's most common
-    // finger at each place of the group becomes a soft preference (CONSISTENCY_POINTS per deviation).
+    // finger at each place of the group becomes the rule (CONSISTENCY_POINTS per deviation).
     const free = cheapestPath(lattice).path
     const groupPhases = line!.map((_, i) => i % period)
     const pattern = sharedPattern(free.map(o => (o + 1) as Finger), groupPhases)
