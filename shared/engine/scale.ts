@@ -36,15 +36,23 @@ export function scalePhases(keys: number[]): number[] | null {
 }
 
 function classPhases(keys: number[]): number[] | null {
+  return neighbourPhases(keys, 5, 12, 3)
+}
+
+/**
+ * Phases by pitch class for a line of `fewest` to `most` classes whose every step goes to the
+ * neighbouring class of the line's own set, by at most `widest` semitones; otherwise null.
+ */
+function neighbourPhases(keys: number[], fewest: number, most: number, widest: number): number[] | null {
   const classes = pitchClasses(keys)
-  if (classes.length < 5) return null
+  if (classes.length < fewest || classes.length > most) return null
   const rank = new Map(classes.map((c, i) => [c, i]))
   const phases = keys.map(k => rank.get(pitchClass(k))!)
   for (let i = 1; i < keys.length; i++) {
     const step = keys[i]! - keys[i - 1]!
     const moved = (phases[i]! - phases[i - 1]! + classes.length) % classes.length
     const neighbour = (step > 0 && moved === 1) || (step < 0 && moved === classes.length - 1)
-    if (!neighbour || Math.abs(step) > 3) return null
+    if (!neighbour || Math.abs(step) > widest) return null
   }
   return phases
 }
@@ -63,17 +71,7 @@ const ARPEGGIO_STEP = 5
  */
 export function arpeggioPhases(keys: number[]): number[] | null {
   if (Math.max(...keys) - Math.min(...keys) < 12) return null
-  const classes = pitchClasses(keys)
-  if (classes.length < 3 || classes.length > 4) return null
-  const rank = new Map(classes.map((c, i) => [c, i]))
-  const phases = keys.map(k => rank.get(pitchClass(k))!)
-  for (let i = 1; i < keys.length; i++) {
-    const step = keys[i]! - keys[i - 1]!
-    const moved = (phases[i]! - phases[i - 1]! + classes.length) % classes.length
-    const neighbour = (step > 0 && moved === 1) || (step < 0 && moved === classes.length - 1)
-    if (!neighbour || Math.abs(step) > ARPEGGIO_STEP) return null
-  }
-  return phases
+  return neighbourPhases(keys, 3, 4, ARPEGGIO_STEP)
 }
 
 const DEGREES = 7

@@ -14,6 +14,7 @@ import type { DrillMusic, PlayedEvent } from '../../../shared/engine/types'
 const RECORDED: { version: string, digest: string }[] = [
   { version: '1.4.0', digest: 'd0a7323301a88271' },
   { version: '1.5.0', digest: '394c5a7dd63437ea' },
+  { version: '1.6.0', digest: '0c44a0e501419131' },
 ]
 
 /** A reproducible stream of numbers in [0, 1) (a linear congruential generator). */
@@ -53,6 +54,11 @@ function results(): unknown[] {
     suggestHands({ notes: walk }),
     inferFingering('right', performed),
     checkFingering({ hand: 'right', notes: walk.slice(0, 40), fingers: walk.slice(0, 40).map((_, k) => ((k % 5) + 1) as 1 | 2 | 3 | 4 | 5) }),
+    // From 1.6.0 on: an arpeggio, a broken chord, a trill after a run and a sequence.
+    suggestFingering({ hand: 'left', notes: [36, 40, 43, 48, 52, 55, 60, 55, 52, 48, 43, 40, 36] }),
+    suggestFingering({ hand: 'right', notes: [64, 67, 72, 67, 64] }),
+    suggestFingering({ hand: 'right', notes: [...scale.slice(0, 10), 77, 76, 77, 76, 77, 76, 77] }),
+    suggestFingering({ hand: 'left', notes: [0, 1, 2, 3, 4].flatMap(g => [scale[g]!, scale[g + 1]!, scale[g + 2]!, scale[g]!].map(m => m - 24)) }),
   ]
 }
 
