@@ -34,6 +34,7 @@ export async function seed(knex: Knex): Promise<void> {
       const [id] = await trx('drills').insert({
         owner_id: teacherId, title: d.title, description: d.description, kind: d.kind, hand: d.hand,
         key_signature: d.key, meter: d.meter, tempo_bpm: d.tempoBpm, notes, source: 'typed', version: 1, is_public: d.isPublic,
+        level: d.level, tags: JSON.stringify(d.tags),
       })
       await trx('drill_versions').insert({ drill_id: id, version: 1, hand: d.hand, tempo_bpm: d.tempoBpm, notes })
       drillIds.set(d.slug, id!)

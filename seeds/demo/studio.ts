@@ -30,6 +30,9 @@ export interface DemoDrill {
   meter: string
   tempoBpm: number
   isPublic: boolean
+  /** Our own level, 1 to 8. */
+  level: number
+  tags: string[]
   notes: DrillNote[]
 }
 
@@ -53,22 +56,22 @@ function chords(pitches: string, fingers: string, length: number): DrillNote[] {
 
 export const drills: DemoDrill[] = [
   {
-    slug: 'c-major-rh', title: 'C major scale, right hand', kind: 'scale', hand: 'right', key: 'C major', meter: '4/4', tempoBpm: 72, isPublic: true,
+    slug: 'c-major-rh', title: 'C major scale, right hand', kind: 'scale', hand: 'right', key: 'C major', meter: '4/4', tempoBpm: 72, isPublic: true, level: 1, tags: ['warm-up'],
     description: 'One octave up and down in quavers. Keep the thumb moving under early, before the 3 lands.',
     notes: line('C4 D4 E4 F4 G4 A4 B4 C5 B4 A4 G4 F4 E4 D4 C4', '1 2 3 1 2 3 4 5 4 3 2 1 3 2 1', 0.5),
   },
   {
-    slug: 'g-major-rh-2oct', title: 'G major scale, right hand, two octaves', kind: 'scale', hand: 'right', key: 'G major', meter: '4/4', tempoBpm: 80, isPublic: false,
+    slug: 'g-major-rh-2oct', title: 'G major scale, right hand, two octaves', kind: 'scale', hand: 'right', key: 'G major', meter: '4/4', tempoBpm: 80, isPublic: false, level: 3, tags: ['two octaves'],
     description: 'Two octaves ascending. The F sharp falls to finger 4 in each octave.',
     notes: line('G3 A3 B3 C4 D4 E4 F#4 G4 A4 B4 C5 D5 E5 F#5 G5', '1 2 3 1 2 3 4 1 2 3 1 2 3 4 5', 0.5),
   },
   {
-    slug: 'f-major-lh', title: 'F major scale, left hand', kind: 'scale', hand: 'left', key: 'F major', meter: '4/4', tempoBpm: 66, isPublic: false,
+    slug: 'f-major-lh', title: 'F major scale, left hand', kind: 'scale', hand: 'left', key: 'F major', meter: '4/4', tempoBpm: 66, isPublic: false, level: 2, tags: ['warm-up'],
     description: 'One octave up and down. Cross 3 over the thumb onto B flat going up.',
     notes: line('F3 G3 A3 Bb3 C4 D4 E4 F4 E4 D4 C4 Bb3 A3 G3 F3', '5 4 3 2 1 3 2 1 2 3 1 2 3 4 5', 0.5),
   },
   {
-    slug: 'd-major-ht', title: 'D major scale, hands together', kind: 'scale', hand: 'both', key: 'D major', meter: '4/4', tempoBpm: 60, isPublic: false,
+    slug: 'd-major-ht', title: 'D major scale, hands together', kind: 'scale', hand: 'both', key: 'D major', meter: '4/4', tempoBpm: 60, isPublic: false, level: 4, tags: ['hands together'],
     description: 'One octave ascending, an octave apart. The hands pass their thumbs at different moments: listen for evenness there.',
     notes: [
       ...line('D4 E4 F#4 G4 A4 B4 C#5 D5', '1 2 3 1 2 3 4 5', 0.5, 'right'),
@@ -76,42 +79,42 @@ export const drills: DemoDrill[] = [
     ],
   },
   {
-    slug: 'c-arpeggio-rh', title: 'C major arpeggio, right hand', kind: 'arpeggio', hand: 'right', key: 'C major', meter: '3/4', tempoBpm: 69, isPublic: true,
+    slug: 'c-arpeggio-rh', title: 'C major arpeggio, right hand', kind: 'arpeggio', hand: 'right', key: 'C major', meter: '3/4', tempoBpm: 69, isPublic: true, level: 2, tags: ['thumb-under'],
     description: 'Two octaves up and back. Let the thumb pass under without a bump in the sound.',
     notes: line('C4 E4 G4 C5 E5 G5 C6 G5 E5 C5 G4 E4 C4', '1 2 3 1 2 3 5 3 2 1 3 2 1', 0.5),
   },
   {
-    slug: 'a-minor-arpeggio-lh', title: 'A minor arpeggio, left hand', kind: 'arpeggio', hand: 'left', key: 'A minor', meter: '3/4', tempoBpm: 63, isPublic: false,
+    slug: 'a-minor-arpeggio-lh', title: 'A minor arpeggio, left hand', kind: 'arpeggio', hand: 'left', key: 'A minor', meter: '3/4', tempoBpm: 63, isPublic: false, level: 3, tags: ['thumb-under'],
     description: 'Two octaves ascending. Finger 4 takes the C; the 2 crosses over after the thumb.',
     notes: line('A2 C3 E3 A3 C4 E4 A4', '5 4 2 1 4 2 1', 0.5),
   },
   {
-    slug: 'five-c-rh', title: 'Five-finger pattern in C, right hand', kind: 'five-finger', hand: 'right', key: 'C major', meter: '4/4', tempoBpm: 84, isPublic: true,
+    slug: 'five-c-rh', title: 'Five-finger pattern in C, right hand', kind: 'five-finger', hand: 'right', key: 'C major', meter: '4/4', tempoBpm: 84, isPublic: true, level: 1, tags: ['beginner', 'warm-up'],
     description: 'Up and down the five keys, one finger per key. Aim for five equally loud fingers.',
     notes: line('C4 D4 E4 F4 G4 F4 E4 D4 C4', '1 2 3 4 5 4 3 2 1', 0.5),
   },
   {
-    slug: 'five-g-lh', title: 'Five-finger pattern in G, left hand', kind: 'five-finger', hand: 'left', key: 'G major', meter: '4/4', tempoBpm: 76, isPublic: false,
+    slug: 'five-g-lh', title: 'Five-finger pattern in G, left hand', kind: 'five-finger', hand: 'left', key: 'G major', meter: '4/4', tempoBpm: 76, isPublic: false, level: 1, tags: ['beginner'],
     description: 'Little finger on G, thumb on D, and back. Keep the fourth finger as strong as the others.',
     notes: line('G2 A2 B2 C3 D3 C3 B2 A2 G2', '5 4 3 2 1 2 3 4 5', 0.5),
   },
   {
-    slug: 'three-step-sequence', title: 'Three-note steps, right hand', kind: 'sequence', hand: 'right', key: 'C major', meter: '3/4', tempoBpm: 72, isPublic: false,
+    slug: 'three-step-sequence', title: 'Three-note steps, right hand', kind: 'sequence', hand: 'right', key: 'C major', meter: '3/4', tempoBpm: 72, isPublic: false, level: 2, tags: ['legato'],
     description: 'A three-note shape climbing a step at a time. The same fingers for every group; move the hand between groups without a gap.',
     notes: line('C4 D4 E4 D4 E4 F4 E4 F4 G4 F4 G4 A4 G4 A4 B4 A4 B4 C5', '1 2 3 1 2 3 1 2 3 1 2 3 1 2 3 1 2 3', 0.5),
   },
   {
-    slug: 'b-flat-major-rh', title: 'B flat major scale, right hand', kind: 'scale', hand: 'right', key: 'B flat major', meter: '4/4', tempoBpm: 66, isPublic: false,
+    slug: 'b-flat-major-rh', title: 'B flat major scale, right hand', kind: 'scale', hand: 'right', key: 'B flat major', meter: '4/4', tempoBpm: 66, isPublic: false, level: 3, tags: ['black keys'],
     description: 'One octave ascending. The thumb plays only C and F; finger 4 always lands on B flat.',
     notes: line('Bb3 C4 D4 Eb4 F4 G4 A4 Bb4', '2 1 2 3 1 2 3 4', 0.5),
   },
   {
-    slug: 'c-cadence-chords', title: 'Cadence chords in C, right hand', kind: 'passage', hand: 'right', key: 'C major', meter: '4/4', tempoBpm: 60, isPublic: false,
+    slug: 'c-cadence-chords', title: 'Cadence chords in C, right hand', kind: 'passage', hand: 'right', key: 'C major', meter: '4/4', tempoBpm: 60, isPublic: false, level: 2, tags: ['chords'],
     description: 'I – IV – V – I in close position. All notes of a chord together, and equally loud.',
     notes: chords('C4+E4+G4 C4+F4+A4 B3+D4+G4 C4+E4+G4', '1+3+5 1+2+4 1+2+5 1+3+5', 1),
   },
   {
-    slug: 'harbour-lights', title: 'Harbour Lights (study), hands together', kind: 'passage', hand: 'both', key: 'G major', meter: '4/4', tempoBpm: 70, isPublic: false,
+    slug: 'harbour-lights', title: 'Harbour Lights (study), hands together', kind: 'passage', hand: 'both', key: 'G major', meter: '4/4', tempoBpm: 70, isPublic: false, level: 4, tags: ['hands together', 'exam piece'],
     description: 'A short study of our own: a stepwise tune over a left-hand fifth that moves once.',
     notes: [
       ...line('B4 A4 G4 A4 B4 D5 C5 B4 A4 G4 A4 G4', '3 2 1 2 3 5 4 3 2 1 2 1', 0.5, 'right'),

@@ -37,3 +37,8 @@ export function validQuery<S extends z.ZodType>(event: H3Event, schema: S): z.in
 export function validParams<S extends z.ZodType>(event: H3Event, schema: S): z.infer<S> {
   return check(schema, getRouterParams(event, { decode: true }), 'params')
 }
+
+/** Text fields of a multipart upload; an empty field counts as absent, as a form leaves unchosen selects empty. */
+export function validFields<S extends z.ZodType>(fields: Record<string, string>, schema: S): z.infer<S> {
+  return check(schema, Object.fromEntries(Object.entries(fields).filter(([, v]) => v !== '')), 'fields')
+}

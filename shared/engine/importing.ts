@@ -35,13 +35,13 @@ export interface ImportParts {
 }
 
 export function finishImport(parts: ImportParts): ImportedDrill {
-  if (parts.notes.length === 0) throw new ImportError(`The ${parts.kind} contains no notes`)
+  if (parts.notes.length === 0) throw new ImportError(`the ${parts.kind} contains no notes`)
   const notes = [...parts.notes].sort((a, b) => a.beat - b.beat || (a.hand ?? '').localeCompare(b.hand ?? ''))
   const music = DrillMusic.safeParse({ hand: parts.hand, tempoBpm: parts.tempoBpm, notes })
   if (!music.success) {
     const issue = music.error.issues[0]!
     const where = issue.path.length ? ` (at ${issue.path.join('.')})` : ''
-    throw new ImportError(`The ${parts.kind} does not fit a drill${where}: ${issue.message}`)
+    throw new ImportError(`the ${parts.kind} does not fit a drill${where}: ${issue.message}`)
   }
   return { ...music.data, key: parts.key, meter: parts.meter, title: parts.title }
 }

@@ -16,10 +16,30 @@ import { midiFromName } from './pitch'
 import type { DrillNote, Emphasis, Finger, Hand, ImportedDrill } from './types'
 
 export interface MusicXmlImportOptions {
-  /** The hand of a one-staff part; right when absent. */
+  /** The hand of a one-staff part (or of the one staff chosen); right when absent. */
   hand?: Hand
-  /** Which part to read (0-based); the first when absent. */
+  /** Which part to read, numbered from 1 as a teacher counts them; the first when absent. */
   part?: number
+  /** One staff of a grand staff (1 upper, 2 lower), or both; both when absent. */
+  staff?: 1 | 2 | 'both'
+  /** The measures to read, counted from 1 in the order they stand in the part, both ends included. */
+  measures?: { from: number, to: number }
+  /** Asked once per measure; true stops the import (a time limit on parsing). */
+  isLate?: () => boolean
+}
+
+/** A part as the preview lists it, so the teacher can choose one. */
+export interface MusicXmlPart {
+  number: number
+  id: string
+  name: string
+  staves: number
+  measures: number
+}
+
+/** A parsed score, read once and then listed or imported. */
+export interface MusicXmlDocument {
+  root: XNode
 }
 
 /** fast-xml-parser's ordered form: one key naming the element, its children, and ':@' for attributes. */
@@ -108,15 +128,23 @@ function tieTypes(note: XNode): Set<string> {
   return new Set(all(note, 'tie').map(t => attr(t, 'type') ?? ''))
 }
 
+/**
+ * Entity declarations are refused before parsing: an external entity could name a local file or an
+ * address (XXE), and nested internal ones expand exponentially (billion laughs). MusicXML needs
+ * neither; its DOCTYPE line only names the public DTD, which is never fetched.
+ */
+const ENTITY_DECLARATION = /<!ENTITY/i
+
 function parseDocument(text: string): XNode {
   if (text.startsWith('PK')) throw new ImportError('This is a compressed MusicXML file (.mxl); export it as uncompressed MusicXML (.musicxml or .xml)')
+  if (ENTITY_DECLARATION.test(text)) throw new ImportError('the file declares XML entities (<!ENTITY …>), which are not accepted in a MusicXML upload')
   const valid = XMLValidator.validate(text)
   if (valid !== true) throw new ImportError(`This is not well-formed XML (line ${valid.err.line}, column ${valid.err.col}: ${valid.err.msg})`)
   const parser = new XMLParser({ preserveOrder: true, ignoreAttributes: false, attributeNamePrefix: '', parseTagValue: false, processEntities: true })
   const nodes = parser.parse(text) as XNode[]
   const root = nodes.find(n => !tagOf(n).startsWith('?') && !tagOf(n).startsWith('!') && tagOf(n) !== '#text')
   const tag = root ? tagOf(root) : '(none)'
-  if (tag === 'score-timewise') throw new ImportError('Timewise MusicXML is not supported; export the score as partwise MusicXML')
+  if (tag === 'score-timewise') throw new ImportError('score-timewise is not supported: export the score as partwise MusicXML (score-partwise)')
   if (!root || tag !== 'score-partwise') throw new ImportError(`This is not a MusicXML partwise score (the root element is <${tag}>, not <score-partwise>)`)
   return root
 }
@@ -126,12 +154,36 @@ function keyName(fifths: number, mode: string | undefined): string {
   return `${Note.transposeFifths(minor ? 'A' : 'C', fifths)} ${minor ? 'minor' : 'major'}`
 }
 
-export function importMusicXml(text: string, options: MusicXmlImportOptions = {}): ImportedDrill {
-  const root = parseDocument(text.trimStart())
+export function parseMusicXml(text: string): MusicXmlDocument {
+  return { root: parseDocument(text.replace(/^\uFEFF/, '').trimStart()) }
+}
+
+export function musicXmlParts(doc: MusicXmlDocument): MusicXmlPart[] {
+  const names = new Map<string, string>()
+  for (const scorePart of all(child(doc.root, 'part-list') ?? {}, 'score-part')) {
+    names.set(attr(scorePart, 'id') ?? '', textOf(child(scorePart, 'part-name')) ?? '')
+  }
+  return all(doc.root, 'part').map((part, k) => {
+    const id = attr(part, 'id') ?? ''
+    const measures = all(part, 'measure')
+    const staves = Math.max(1, ...measures.flatMap(m => all(m, 'attributes').map(a => numberIn(a, 'staves') ?? 1)))
+    return { number: k + 1, id, name: names.get(id) || `Part ${k + 1}`, staves, measures: measures.length }
+  })
+}
+
+export function importMusicXml(source: string | MusicXmlDocument, options: MusicXmlImportOptions = {}): ImportedDrill {
+  const root = typeof source === 'string' ? parseMusicXml(source).root : source.root
   const parts = all(root, 'part')
-  const partIndex = options.part ?? 0
-  const part = parts[partIndex]
-  if (!part) throw new ImportError(parts.length === 0 ? 'The score has no <part>' : `Part ${partIndex} does not exist: the score has ${parts.length} parts (0 to ${parts.length - 1})`)
+  const partNumber = options.part ?? 1
+  const part = parts[partNumber - 1]
+  if (!part) throw new ImportError(parts.length === 0 ? 'The score has no <part>' : `Part ${partNumber} does not exist: the score has ${parts.length} part${parts.length === 1 ? '' : 's'} (1 to ${parts.length})`)
+  const allMeasures = all(part, 'measure')
+  const from = options.measures?.from ?? 1
+  const to = Math.min(options.measures?.to ?? allMeasures.length, allMeasures.length)
+  if (from < 1 || from > allMeasures.length || to < from) {
+    throw new ImportError(`measures ${from} to ${options.measures?.to ?? to} are not in part ${partNumber}, which has ${allMeasures.length} measure${allMeasures.length === 1 ? '' : 's'}`)
+  }
+  const wantedStaff = options.staff ?? 'both'
 
   let divisions: number | undefined
   let staves = 1
@@ -143,8 +195,13 @@ export function importMusicXml(text: string, options: MusicXmlImportOptions = {}
   // The dynamic level in force on each staff, as an emphasis (null: ordinary).
   const levels = new Map<number, Emphasis | null>()
   let measureStart = 0
+  let rangeStart = 0
 
-  for (const measure of all(part, 'measure')) {
+  for (const [ordinal, measure] of allMeasures.entries()) {
+    if (ordinal + 1 > to) break
+    if (options.isLate?.()) throw new ImportError('reading the score took too long; upload a shorter extract')
+    const inRange = ordinal + 1 >= from
+    if (ordinal + 1 === from) rangeStart = measureStart
     const label = attr(measure, 'number') ?? '?'
     const fail = (why: string): never => {
       throw new ImportError(`Measure ${label}: ${why}`)
@@ -206,7 +263,7 @@ export function importMusicXml(text: string, options: MusicXmlImportOptions = {}
           furthest = Math.max(furthest, position)
         }
         const pitch = child(element, 'pitch')
-        if (!pitch || child(element, 'cue')) continue
+        if (!pitch || child(element, 'cue') || !inRange) continue
         const step = textOf(child(pitch, 'step'))?.toUpperCase() ?? ''
         const alter = Math.round(numberIn(pitch, 'alter') ?? 0)
         const octave = numberIn(pitch, 'octave')
@@ -221,6 +278,7 @@ export function importMusicXml(text: string, options: MusicXmlImportOptions = {}
           fail(error instanceof Error ? error.message : String(error))
         }
         const staff = numberIn(element, 'staff') ?? 1
+        if (wantedStaff !== 'both' && staff !== wantedStaff) continue
         const tieKey = `${staff}:${midi}`
         const ties = tieTypes(element)
         const open = openTies.get(tieKey)
@@ -232,7 +290,7 @@ export function importMusicXml(text: string, options: MusicXmlImportOptions = {}
         const finger = fingerOf(element)
         const own = noteEmphasis(element)
         const emphasis = own === undefined ? levels.get(staff) : own
-        const note = { pitch: name, beat: roundBeat(measureStart + onset), length: roundBeat(length), staff, ...(finger ? { finger } : {}), ...(emphasis ? { emphasis } : {}) }
+        const note = { pitch: name, beat: roundBeat(measureStart - rangeStart + onset), length: roundBeat(length), staff, ...(finger ? { finger } : {}), ...(emphasis ? { emphasis } : {}) }
         notes.push(note)
         if (ties.has('start')) openTies.set(tieKey, note)
       }
@@ -240,11 +298,15 @@ export function importMusicXml(text: string, options: MusicXmlImportOptions = {}
     measureStart += furthest
   }
 
+  if (notes.length === 0) {
+    const range = options.measures ? ` in measures ${from} to ${to}` : ''
+    throw new ImportError(`there are no notes in part ${partNumber}${wantedStaff === 'both' ? '' : `, staff ${wantedStaff}`}${range}`)
+  }
   const used = new Set(notes.map(n => n.staff))
   const twoStaves = used.size >= 2
-  // One staff of a grand staff in use: that staff's hand; a one-staff part: the hand asked for.
+  // One staff of a grand staff in use: that staff's hand unless the teacher chose one; a one-staff part: the hand asked for.
   const onlyStaff = used.values().next().value ?? 1
-  const singleHand: Hand = staves >= 2 ? (onlyStaff === 1 ? 'right' : 'left') : (options.hand ?? 'right')
+  const singleHand: Hand = options.hand ?? (staves >= 2 ? (onlyStaff === 1 ? 'right' : 'left') : 'right')
   const workTitle = textOf(child(child(root, 'work') ?? {}, 'work-title'))
   return finishImport({
     hand: twoStaves ? 'both' : singleHand,

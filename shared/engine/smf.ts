@@ -25,7 +25,7 @@ const NEUTRAL_VELOCITY = 64
 export interface SmfImportOptions {
   /** The hand of a one-voice file; right when absent. */
   hand?: Hand
-  /** Which tracks to read (indices into the tracks that hold notes), when a file has more than two. */
+  /** Which tracks to read, numbered from 1 among the tracks that hold notes (as `smfTracks` lists them). */
   tracks?: number[]
   /**
    * Snap onsets and lengths to this grid in beats (0.25 for semiquavers), for files recorded
@@ -34,31 +34,83 @@ export interface SmfImportOptions {
   quantize?: number
 }
 
-function parse(bytes: Uint8Array): Midi {
-  if (bytes.length < 14 || String.fromCharCode(...bytes.subarray(0, 4)) !== 'MThd') {
-    throw new ImportError('This is not a Standard MIDI File: it does not begin with an MThd header')
+/** A track as the preview lists it, so the teacher can choose one. */
+export interface SmfTrack {
+  number: number
+  name: string
+  noteCount: number
+  channel: number
+}
+
+const chunkId = (bytes: Uint8Array, at: number): string => String.fromCharCode(...bytes.subarray(at, at + 4))
+const uint32 = (bytes: Uint8Array, at: number): number => ((bytes[at]! << 24) >>> 0) + (bytes[at + 1]! << 16) + (bytes[at + 2]! << 8) + bytes[at + 3]!
+
+/**
+ * The chunk structure of SMF 1.0 checked before any event is read: an MThd of at least 6 bytes,
+ * then as many chunks as the header promises, none longer than what the file still holds. The
+ * reader underneath stops quietly at the end of the bytes, so a truncated file or one claiming
+ * more tracks than it holds would otherwise come through half read.
+ */
+function checkChunks(bytes: Uint8Array): void {
+  const headerLength = uint32(bytes, 4)
+  if (headerLength < 6 || 8 + headerLength > bytes.length) throw new ImportError(`this MIDI file is damaged: its MThd header claims ${headerLength} bytes`)
+  const promised = (bytes[10]! << 8) + bytes[11]!
+  let at = 8 + headerLength
+  let tracks = 0
+  while (at < bytes.length) {
+    if (at + 8 > bytes.length) throw new ImportError(`this MIDI file is damaged: it ends inside a chunk header at byte ${at}`)
+    const length = uint32(bytes, at + 4)
+    if (at + 8 + length > bytes.length) {
+      throw new ImportError(`this MIDI file is truncated or damaged: chunk ${tracks + 1} claims ${length} bytes but only ${bytes.length - at - 8} remain`)
+    }
+    if (chunkId(bytes, at) === 'MTrk') tracks++
+    at += 8 + length
   }
+  if (tracks !== promised) throw new ImportError(`this MIDI file is damaged: its header promises ${promised} tracks but it holds ${tracks}`)
+}
+
+function parse(bytes: Uint8Array): Midi {
+  if (bytes.length < 14 || chunkId(bytes, 0) !== 'MThd') {
+    throw new ImportError('not a MIDI file: a Standard MIDI File begins with an MThd header')
+  }
+  checkChunks(bytes)
   try {
     return new Midi(bytes)
   }
   catch (error) {
-    throw new ImportError(`This MIDI file is damaged and cannot be read (${error instanceof Error ? error.message : String(error)})`)
+    throw new ImportError(`this MIDI file is damaged and cannot be read (${error instanceof Error ? error.message : String(error)})`)
   }
 }
 
-export function importSmf(bytes: Uint8Array, options: SmfImportOptions = {}): ImportedDrill {
-  const midi = parse(bytes)
-  const voiced = midi.tracks.filter(t => t.notes.length > 0 && t.channel !== PERCUSSION_CHANNEL)
+const voicedTracks = (midi: Midi): Midi['tracks'] => midi.tracks.filter(t => t.notes.length > 0 && t.channel !== PERCUSSION_CHANNEL)
+
+/** A parsed Standard MIDI File, read once and then listed or imported. */
+export interface SmfDocument {
+  midi: Midi
+}
+
+export function parseSmf(bytes: Uint8Array): SmfDocument {
+  return { midi: parse(bytes) }
+}
+
+/** The tracks that hold notes, numbered from 1, as `importSmf`'s `tracks` counts them. */
+export function smfTracks(doc: SmfDocument): SmfTrack[] {
+  return voicedTracks(doc.midi).map((t, k) => ({ number: k + 1, name: t.name.trim() || t.instrument.name || `Track ${k + 1}`, noteCount: t.notes.length, channel: t.channel + 1 }))
+}
+
+export function importSmf(source: Uint8Array | SmfDocument, options: SmfImportOptions = {}): ImportedDrill {
+  const midi = source instanceof Uint8Array ? parse(source) : source.midi
+  const voiced = voicedTracks(midi)
   let chosen = voiced
   if (options.tracks) {
     chosen = options.tracks.map((k) => {
-      const track = voiced[k]
-      if (!track) throw new ImportError(`Track ${k} does not exist: the file has ${voiced.length} tracks with notes (0 to ${voiced.length - 1})`)
+      const track = voiced[k - 1]
+      if (!track) throw new ImportError(`track ${k} does not exist: the file has ${voiced.length} track${voiced.length === 1 ? '' : 's'} with notes (1 to ${voiced.length})`)
       return track
     })
   }
   if (chosen.length > 2) {
-    throw new ImportError(`The MIDI file has ${chosen.length} tracks with notes; choose one or two of them (0 to ${chosen.length - 1})`)
+    throw new ImportError(`the MIDI file has ${chosen.length} tracks with notes; choose one or two of them (1 to ${chosen.length})`)
   }
 
   const keySignature = midi.header.keySignatures[0]

@@ -22,14 +22,18 @@ export interface Reply<T = unknown> {
 export class Client {
   private cookie = ''
 
-  async request<T = Record<string, unknown>>(method: string, path: string, body?: unknown, raw?: string, extraHeaders: Record<string, string> = {}): Promise<Reply<T>> {
+  async request<T = Record<string, unknown>>(method: string, path: string, body?: unknown, raw?: string | FormData, extraHeaders: Record<string, string> = {}): Promise<Reply<T>> {
     const headers: Record<string, string> = { accept: 'application/json' }
     if (this.cookie) headers.cookie = this.cookie
-    if (body !== undefined || raw !== undefined) headers['content-type'] = 'application/json'
+    // A FormData body sets its own multipart content type and boundary.
+    if (body !== undefined || typeof raw === 'string') headers['content-type'] = 'application/json'
     Object.assign(headers, extraHeaders)
     const res = await fetch(baseUrl() + path, { method, headers, body: raw ?? (body === undefined ? undefined : JSON.stringify(body)) })
     const setCookie = res.headers.getSetCookie().map(c => c.split(';')[0]!).filter(Boolean)
     if (setCookie.length) this.cookie = setCookie.join('; ')
+    if (!/json|text|xml/.test(res.headers.get('content-type') ?? 'text')) {
+      return { status: res.status, body: new Uint8Array(await res.arrayBuffer()) as T, headers: res.headers }
+    }
     const text = await res.text()
     let parsed: unknown = text
     try {
@@ -50,6 +54,14 @@ export class Client {
 
   post<T = Record<string, unknown>>(path: string, body?: unknown): Promise<Reply<T>> {
     return this.request<T>('POST', path, body)
+  }
+
+  /** A multipart upload, as a browser's form sends it: the file under `file`, the rest as text fields. */
+  upload<T = Record<string, unknown>>(path: string, file: { name: string, bytes: Uint8Array | string } | null, fields: Record<string, string> = {}): Promise<Reply<T>> {
+    const form = new FormData()
+    if (file) form.append('file', new Blob([file.bytes as BlobPart]), file.name)
+    for (const [name, value] of Object.entries(fields)) form.append(name, value)
+    return this.request<T>('POST', path, undefined, form)
   }
 
   async signIn(email: string, password = DEMO_PASSWORD): Promise<this> {

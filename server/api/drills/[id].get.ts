@@ -1,7 +1,4 @@
-import { z } from 'zod'
-import type { DrillRow } from '../../utils/drills'
-
-const Params = z.object({ id: z.coerce.number().int().positive() })
+import { DrillIdParams } from '#shared/types/drill'
 
 export interface DrillTarget {
   assignmentId: number
@@ -14,10 +11,9 @@ export interface DrillTarget {
 
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event)
-  const { id } = validParams(event, Params)
+  const { id } = validParams(event, DrillIdParams)
   const db = useDb()
-  const row: DrillRow | undefined = await db('drills').where('id', id).whereIn('id', visibleDrillIds(db, user)).first()
-  if (!row) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'Drill not found' })
+  const row = await visibleDrill(db, user, id)
 
   // A student sees what each assignment asks of this drill; the practice page never goes past the target tempo.
   const targets: DrillTarget[] = user.role !== 'student'

@@ -1,18 +1,7 @@
-import { z } from 'zod'
-import type { DrillRow } from '../../utils/drills'
-import { DrillKind } from '#shared/types/drill'
-
-const Query = z.object({
-  kind: DrillKind.optional(),
-})
+import { DrillListQuery } from '#shared/types/drill'
 
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event)
-  const { kind } = validQuery(event, Query)
-  const db = useDb()
-  const rows: DrillRow[] = await db('drills')
-    .whereIn('id', visibleDrillIds(db, user))
-    .modify(q => kind && q.where({ kind }))
-    .orderBy([{ column: 'kind' }, { column: 'title' }])
-  return { drills: rows.map(toDrillSummary) }
+  const query = validQuery(event, DrillListQuery)
+  return listDrills(useDb(), user, query)
 })

@@ -100,13 +100,13 @@ describe('importMusicXml', () => {
     ['plain text', 'hello', /not well-formed XML|not a MusicXML/],
     ['broken XML', '<score-partwise><part></score-partwise>', /not well-formed XML \(line 1/],
     ['another XML format', '<svg xmlns="http://www.w3.org/2000/svg"></svg>', /root element is <svg>/],
-    ['a timewise score', '<score-timewise version="4.0"></score-timewise>', /Timewise MusicXML is not supported/],
+    ['a timewise score', '<score-timewise version="4.0"></score-timewise>', /score-timewise is not supported/],
     ['a compressed file', 'PK\u0003\u0004rest-of-zip', /compressed MusicXML/],
     ['a score without notes', '<score-partwise><part id="P1"><measure number="1"/></part></score-partwise>', /no notes/],
     ['a duration before divisions', `<score-partwise><part id="P1"><measure number="7">${note('C', 4, 1)}</measure></part></score-partwise>`, /Measure 7: .*divisions/],
     ['a part that is not there', '<score-partwise><part id="P1"/></score-partwise>', /Part 2 does not exist/],
   ])('rejects %s with a clear error', (_, xml, message) => {
-    const run = (): unknown => importMusicXml(xml, { part: xml.includes('<part id="P1"/>') ? 2 : 0 })
+    const run = (): unknown => importMusicXml(xml, { part: xml.includes('<part id="P1"/>') ? 2 : 1 })
     expect(run).toThrow(ImportError)
     expect(run).toThrow(message)
   })

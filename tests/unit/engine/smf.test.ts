@@ -167,7 +167,7 @@ describe('importSmf', () => {
   })
 
   it.each([
-    ['random bytes', new Uint8Array([1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15]), /not a Standard MIDI File/],
+    ['random bytes', new Uint8Array([1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15]), /not a MIDI file/],
     ['a truncated file', file.subarray(0, 30), /damaged/],
   ])('rejects %s with a clear error', (_, bytes, message) => {
     expect(() => importSmf(bytes)).toThrow(ImportError)
