@@ -239,14 +239,17 @@ function chooseOptions(notes: LineItem[], options: ItemOption[][], model: CostMo
     return points
   }
   const stride = n * MAX_OPTIONS + 1
-  const seen = new Map<number, number>()
+  // The candidates of one item by their key, in a small open-addressing table stamped with the item.
+  const slots = 4 * width
+  const slotKey = new Int32Array(slots)
+  const slotCandidate = new Int32Array(slots)
+  const slotStamp = new Int32Array(slots).fill(-1)
   let nextRight = new Int32Array(BEAM)
   let nextLeft = new Int32Array(BEAM)
   let nextCost = new Float64Array(BEAM)
   for (let i = 0; i < n; i++) {
     const previous = (i - 1) * MAX_OPTIONS
     let count = 0
-    seen.clear()
     for (let s = 0; s < size; s++) {
       const r = right[s]!
       const l = left[s]!
@@ -267,10 +270,16 @@ function chooseOptions(notes: LineItem[], options: ItemOption[][], model: CostMo
         // One hand is at this item (option c); the state is told apart by the other's place (a small integer key).
         const other = playsRight && playsLeft ? -1 : playsRight ? nl : nr
         const id = ((playsRight ? 1 : 0) + (playsLeft ? 2 : 0) + 4 * c) * stride + other + 1
-        const same = seen.get(id)
-        if (same !== undefined && candCost[same]! <= points) continue
-        const into = same ?? count++
-        if (same === undefined) seen.set(id, into)
+        let slot = id % slots
+        while (slotStamp[slot] === i && slotKey[slot] !== id) slot = (slot + 1) % slots
+        const same = slotStamp[slot] === i ? slotCandidate[slot]! : -1
+        if (same >= 0 && candCost[same]! <= points) continue
+        const into = same >= 0 ? same : count++
+        if (same < 0) {
+          slotStamp[slot] = i
+          slotKey[slot] = id
+          slotCandidate[slot] = into
+        }
         candRight[into] = nr
         candLeft[into] = nl
         candCost[into] = points
