@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { isTimeZone, todayIn } from '../utils/dueDate'
+import { RowId } from './limits'
 
 // Due instants are stored in a TIMESTAMP column, which ends in January 2038.
 const LAST_DUE_DAY = '2037-12-31'
@@ -12,8 +13,6 @@ export const TimeZone = z.string().trim().min(1).max(64).refine(isTimeZone, { er
 
 const Note = z.string().trim().max(2000, { error: 'At most 2000 characters' })
 
-const PositiveId = z.number().int().positive().max(Number.MAX_SAFE_INTEGER)
-
 /** A due date may be today but not earlier, as the teacher's own calendar reads it. */
 function notPast(input: { dueOn?: string, timeZone?: string }, ctx: z.RefinementCtx): void {
   if (input.dueOn && input.dueOn < todayIn(input.timeZone ?? 'UTC')) {
@@ -22,9 +21,9 @@ function notPast(input: { dueOn?: string, timeZone?: string }, ctx: z.Refinement
 }
 
 export const AssignmentInput = z.object({
-  drillSetId: PositiveId,
-  classId: PositiveId.optional(),
-  studentId: PositiveId.optional(),
+  drillSetId: RowId,
+  classId: RowId.optional(),
+  studentId: RowId.optional(),
   dueOn: DueOn,
   /** The teacher's time zone, in which `dueOn` is read; UTC when the browser does not say. */
   timeZone: TimeZone.optional(),

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { TEMPO_LIMITS } from '../utils/tempo'
+import { RowId } from './limits'
 
 /** A database id as a route parameter or a body field: a positive integer MariaDB's BIGINT holds exactly in JavaScript. */
 export const Id = z.coerce.number({ error: 'Expected an id' }).int({ error: 'Expected an id' }).positive({ error: 'Expected an id' }).max(Number.MAX_SAFE_INTEGER)
@@ -7,7 +8,7 @@ export const Id = z.coerce.number({ error: 'Expected an id' }).int({ error: 'Exp
 export const IdParams = z.object({ id: Id })
 
 export const DrillSetItemInput = z.object({
-  drillId: z.number().int().positive().max(Number.MAX_SAFE_INTEGER),
+  drillId: RowId,
   /** The tempo the student works up to; the practice page never goes above it. */
   targetBpm: z.number().int().min(TEMPO_LIMITS.min).max(TEMPO_LIMITS.max).nullable().optional(),
   targetScore: z.number().int().min(0).max(100).nullable().optional(),
