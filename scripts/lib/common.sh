@@ -112,6 +112,7 @@ stop_mariadb() {
 }
 
 # create_database DB USER PASSWORD [fresh]: the app's database and its own user, over the root socket.
+# The user may also create DB_scratch* databases, where a backup is restored to be checked before use.
 create_database() {
   local db="$1" user="$2" pass="$3" fresh="${4:-}"
   local sql=""
@@ -119,7 +120,8 @@ create_database() {
   sql="$sql CREATE DATABASE IF NOT EXISTS \`$db\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;
     CREATE USER IF NOT EXISTS '$user'@'127.0.0.1' IDENTIFIED BY '$pass';
     ALTER USER '$user'@'127.0.0.1' IDENTIFIED BY '$pass';
-    GRANT ALL PRIVILEGES ON \`$db\`.* TO '$user'@'127.0.0.1';"
+    GRANT ALL PRIVILEGES ON \`$db\`.* TO '$user'@'127.0.0.1';
+    GRANT ALL PRIVILEGES ON \`${db}_scratch%\`.* TO '$user'@'127.0.0.1';"
   mariadb --no-defaults --socket="$MARIADB_SOCKET" -uroot -e "$sql"
 }
 
