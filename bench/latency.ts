@@ -113,7 +113,7 @@ try {
   })
   // A fresh load of the practice page alone, so the figure is what a student's browser fetches to practise.
   await page.goto(`/practice/${row.id}`, { waitUntil: 'networkidle' })
-  await page.locator('#midi-input').selectOption({ label: FAKE_MIDI_INPUT_NAME })
+  await page.locator('#play-with').selectOption({ label: `${FAKE_MIDI_INPUT_NAME} (MIDI)` })
   await page.evaluate(MEASURE)
   const pageScripts = { files: scripts.size, gzipBytes: [...scripts.values()].reduce((a, b) => a + b, 0) }
 

@@ -14,7 +14,7 @@ const browser = await openStudentWithFakeMidi()
 try {
   const { page } = browser
   await page.goto('/settings?probe=1')
-  await page.locator('#midi-device').selectOption({ label: FAKE_MIDI_INPUT_NAME })
+  await page.locator('#play-with').selectOption({ label: `${FAKE_MIDI_INPUT_NAME} (MIDI)` })
   const presses = Number((await page.getByTestId('latency-progress').textContent())?.match(/of (\d+)/)?.[1])
   const all: number[] = []
   console.log(`settings page screen-delay test: ${ROUNDS} rounds of ${presses} fake MIDI note-ons, ${SPACING_MS} ms apart`)

@@ -13,7 +13,10 @@ const KEY_PREFIX = 'evenhand.outbox.'
 
 const OutboxEntry = z.object({
   attempt: AttemptInput,
-  /** Who played it; null when no one was signed in, and then whoever signs in next sends it. */
+  /**
+   * Who played it; null when no one was signed in. Such an entry is never sent by itself: whoever
+   * signs in next may be someone else, so it waits until a student says it is theirs or discards it.
+   */
   userId: z.number().int().positive().nullable(),
   savedAt: z.iso.datetime(),
   tries: z.number().int().nonnegative(),
@@ -44,14 +47,18 @@ export interface AttemptOutbox {
   pending: ComputedRef<OutboxEntry[]>
   /** Attempts the server refused, with its reason; they stay until discarded. */
   rejected: ComputedRef<OutboxEntry[]>
+  /** Attempts played while no one was signed in on this device: sent only once claimed. */
+  unclaimed: ComputedRef<OutboxEntry[]>
   lastError: Readonly<Ref<string | null>>
   state: ComputedRef<OutboxState>
   /** Keeps the attempt on this device, then sends it. Never throws for network or server trouble. */
   save: (attempt: AttemptInput) => Promise<SaveOutcome>
   /** Sends every pending attempt now (on a new visit, on coming back online, on a timer). */
   flush: () => Promise<void>
-  /** Removes a refused attempt once the student has seen why. */
+  /** Removes a refused or unclaimed attempt once the student has seen it. */
   discard: (attemptId: string) => void
+  /** Makes an attempt played while signed out the signed-in student's own, and sends it. */
+  claim: (attemptId: string) => Promise<void>
 }
 
 const FIRST_RETRY_MS = 2_000
@@ -110,9 +117,10 @@ export function createAttemptOutbox(): AttemptOutbox {
   let flushing: Promise<void> | null = null
   let timer: ReturnType<typeof setTimeout> | null = null
 
-  const mine = computed(() => entries.value.filter(e => e.userId === null || e.userId === userId.value))
+  const mine = computed(() => entries.value.filter(e => e.userId !== null && e.userId === userId.value))
   const pending = computed(() => mine.value.filter(e => !e.rejected))
   const rejected = computed(() => mine.value.filter(e => e.rejected))
+  const unclaimed = computed(() => (userId.value === null ? [] : entries.value.filter(e => e.userId === null)))
   const state = computed<OutboxState>(() => (sending.value.size > 0 ? 'saving' : pending.value.length > 0 ? 'waiting' : 'idle'))
 
   function reload(): void {
@@ -187,6 +195,9 @@ export function createAttemptOutbox(): AttemptOutbox {
       rejected: null,
     }
     put(entry)
+    if (entry.userId === null) {
+      return { status: 'queued', message: 'You are signed out; the attempt is kept on this device until you sign in and say it is yours.' }
+    }
     const outcome = await send(entry)
     if (outcome.status === 'queued') scheduleRetry()
     return outcome
@@ -211,8 +222,17 @@ export function createAttemptOutbox(): AttemptOutbox {
   }
 
   function discard(attemptId: string): void {
-    if (!rejected.value.some(e => e.attempt.id === attemptId)) throw new Error('Only an attempt the server refused can be discarded')
+    if (![...rejected.value, ...unclaimed.value].some(e => e.attempt.id === attemptId)) {
+      throw new Error('Only an attempt the server refused, or one played while signed out, can be discarded')
+    }
     remove(attemptId)
+  }
+
+  function claim(attemptId: string): Promise<void> {
+    const entry = unclaimed.value.find(e => e.attempt.id === attemptId)
+    if (!entry || userId.value === null) throw new Error('Only an attempt played while signed out can be claimed, by someone signed in')
+    put({ ...entry, userId: userId.value, nextTryAt: Date.now() })
+    return flush()
   }
 
   if (import.meta.client) {
@@ -229,7 +249,7 @@ export function createAttemptOutbox(): AttemptOutbox {
     if (timer) clearTimeout(timer)
   })
 
-  return { pending, rejected, lastError: readonly(lastError), state, save, flush, discard }
+  return { pending, rejected, unclaimed, lastError: readonly(lastError), state, save, flush, discard, claim }
 }
 
 /** The attempt outbox, one per tab: saves attempts so that none a student played is ever lost. */

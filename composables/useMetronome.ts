@@ -33,9 +33,15 @@ const ACCENT_HZ = 1568 // G6: high enough to cut through piano sound
 const BEAT_HZ = 1047 // C6
 const CLICK_S = 0.03
 
-export function useMetronome() {
-  const volume = ref(0.7)
-  const muted = ref(false)
+export interface MetronomeOptions {
+  /** 0–1; shared with the settings when given (the practice store's `metronomeVolume`). */
+  volume?: Ref<number>
+  muted?: Ref<boolean>
+}
+
+export function useMetronome(options: MetronomeOptions = {}) {
+  const volume = options.volume ?? ref(0.7)
+  const muted = options.muted ?? ref(false)
   const running = ref(false)
   const beat = shallowRef<MetronomeBeat | null>(null)
 

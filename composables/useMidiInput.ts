@@ -1,4 +1,4 @@
-import type { Input, Listener, MessageEvent as MidiMessageEvent } from 'webmidi'
+import type { ControlChangeMessageEvent, Input, Listener, NoteMessageEvent } from 'webmidi'
 import { createEventHook, createSharedComposable, tryOnScopeDispose, useLocalStorage } from '@vueuse/core'
 import type { EventHookOn } from '@vueuse/core'
 import { z } from 'zod'
@@ -17,31 +17,8 @@ const RememberedInput = z.object({ id: z.string().min(1), name: z.string() }).nu
 type RememberedInput = z.infer<typeof RememberedInput>
 
 const STORAGE_KEY = 'evenhand.midi-input'
-const NOTE_OFF = 0x80
-const NOTE_ON = 0x90
-const CONTROL_CHANGE = 0xB0
+/** MIDI 1.0's damper (sustain) pedal controller. */
 const SUSTAIN_PEDAL = 64
-
-/**
- * Turns one raw MIDI channel message into a note or pedal event, or null for anything else.
- * We read the bytes ourselves rather than webmidi's parsed events: that gives the 0–127 values
- * unchanged, ignores webmidi's octave offsets, and needs one listener per input, not sixteen.
- */
-export function parseMidiMessage(data: ArrayLike<number>, timeStampMs: number): LiveNoteEvent | LivePedalEvent | null {
-  const command = (data[0] ?? 0) & 0xF0
-  const first = data[1] ?? 0
-  const second = data[2] ?? 0
-  if (command === NOTE_ON || command === NOTE_OFF) {
-    // Running-status keyboards send a note-on with velocity 0 instead of a note-off.
-    const on = command === NOTE_ON && second > 0
-    return { note: first, on, velocity: on || command === NOTE_OFF ? second : 0, timeStampMs, source: 'midi' }
-  }
-  if (command === CONTROL_CHANGE && first === SUSTAIN_PEDAL) {
-    // The MIDI 1.0 convention for switch controllers: 0–63 is up, 64–127 is down.
-    return { down: second >= 64, timeStampMs, source: 'midi' }
-  }
-  return null
-}
 
 // webmidi is one object per page; a new enable() must wait until the last disable() has
 // finished, or it would find the old MIDIAccess still in place and skip asking for a new one.
@@ -115,18 +92,35 @@ function createMidiInput(): MidiInput {
   const listening = computed<MidiInputInfo | null>(() => inputs.value.find(i => i.id === listeningId.value) ?? null)
   const message = computed(() => describe(status.value, remembered.value, listening.value, failure.value))
 
-  function onMessage(e: MidiMessageEvent): void {
-    const event = parseMidiMessage(e.message.data, e.timestamp)
-    if (!event) return
-    if ('note' in event) void noteHook.trigger(event)
-    else void pedalHook.trigger(event)
+  // webmidi's own events, stamped with the MIDI message's time: it reads a note-on at velocity 0
+  // as a note-off (running status), and `rawValue` is the message's 0–127 byte unchanged. We set no
+  // octave offset, so `note.number` is the message's note number.
+  function onNoteOn(e: NoteMessageEvent): void {
+    void noteHook.trigger({ note: e.note.number, on: true, velocity: e.rawValue ?? 0, timeStampMs: e.timestamp, source: 'midi' })
+  }
+  function onNoteOff(e: NoteMessageEvent): void {
+    void noteHook.trigger({ note: e.note.number, on: false, velocity: e.rawValue ?? 0, timeStampMs: e.timestamp, source: 'midi' })
+  }
+  function onControl(e: ControlChangeMessageEvent): void {
+    if (e.controller.number !== SUSTAIN_PEDAL) return
+    // The MIDI 1.0 convention for switch controllers: 0–63 is up, 64–127 is down.
+    void pedalHook.trigger({ down: (e.rawValue ?? 0) >= 64, timeStampMs: e.timestamp, source: 'midi' })
   }
 
   function attach(input: Input | null): void {
     if (attached?.input === input) return
     attached?.listeners.forEach(l => l.remove())
     attached = null
-    if (input) attached = { input, listeners: [input.addListener('midimessage', onMessage)].flat() }
+    if (input) {
+      attached = {
+        input,
+        listeners: [
+          input.addListener('noteon', onNoteOn),
+          input.addListener('noteoff', onNoteOff),
+          input.addListener('controlchange', onControl),
+        ].flat(),
+      }
+    }
     listeningId.value = input?.id ?? null
   }
 

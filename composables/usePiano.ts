@@ -2,6 +2,7 @@
 //   const piano = usePiano()
 //   piano.noteOn(60, 90); piano.noteOff(60); piano.sustain(true); piano.releaseAll()
 //   piano.loaded  – true once every sample is decoded (notes before that are silently dropped)
+//   piano.progress – the share of samples decoded so far (0–1); piano.failed – they could not be loaded
 //   piano.enabled – sound on/off, shared by every caller (the settings page toggles it)
 // Samples come from public/samples/ (scripts/render-samples.sh: every third key A0–C8).
 import type { Sampler } from 'tone'
@@ -32,21 +33,37 @@ function sampleUrls(): Record<string, string> {
 export function usePiano() {
   const enabled = useState('piano-enabled', () => true)
   const loaded = useState('piano-loaded', () => false)
+  const progress = useState('piano-progress', () => 0)
+  const failed = useState('piano-failed', () => false)
   const baseUrl = `${useRuntimeConfig().app.baseURL}samples/`
 
-  function load(): Promise<void> {
-    loading ??= loadTone().then(Tone => new Promise<void>((resolve, reject) => {
-      sampler = new Tone.Sampler({
-        urls: sampleUrls(),
-        baseUrl,
-        release: RELEASE_S,
-        onload: () => {
-          loaded.value = true
-          resolve()
-        },
-        onerror: reject,
-      }).toDestination()
+  /** Fetches and decodes each sample ourselves, so the page can show how far the loading is. */
+  async function decodeSamples(): Promise<Record<string, AudioBuffer>> {
+    const context = audioContext()
+    if (!context) throw new Error('No audio context')
+    const urls = Object.entries(sampleUrls())
+    let done = 0
+    const buffers = await Promise.all(urls.map(async ([note, file]) => {
+      const response = await fetch(baseUrl + file)
+      if (!response.ok) throw new Error(`Piano sample ${file}: ${response.status}`)
+      const buffer = await context.decodeAudioData(await response.arrayBuffer())
+      progress.value = ++done / urls.length
+      return [note, buffer] as const
     }))
+    return Object.fromEntries(buffers)
+  }
+
+  function load(): Promise<void> {
+    loading ??= loadTone().then(async (Tone) => {
+      const urls = await decodeSamples()
+      // Decoded buffers are ready at once: the sampler has nothing left to load.
+      sampler = new Tone.Sampler({ urls, release: RELEASE_S }).toDestination()
+      loaded.value = true
+    }).catch((error: unknown) => {
+      failed.value = true
+      loading = null
+      throw error
+    })
     return loading
   }
 
@@ -87,7 +104,7 @@ export function usePiano() {
     load().catch((error: unknown) => console.error('Piano samples failed to load', error))
   })
 
-  return { enabled, loaded: readonly(loaded), noteOn, noteOff, sustain, releaseAll, load }
+  return { enabled, loaded: readonly(loaded), progress: readonly(progress), failed: readonly(failed), noteOn, noteOff, sustain, releaseAll, load }
 }
 
 /** tone reads a bare number as a frequency in Hz, so notes go in by name (`C#4`). */

@@ -4,8 +4,8 @@ import { z } from 'zod'
 import { AttemptInput, InputDevice } from '#shared/types/attempt'
 import { HandSize } from '#shared/types/drill'
 import type { LiveNoteEvent, LivePedalEvent } from '#shared/types/live'
-import { clampTempo } from '#shared/utils/tempo'
-import { toPedalEvents, toPlayedEvents } from '#shared/utils/timeline'
+import { clampTempo, TEMPO_LIMITS } from '#shared/utils/tempo'
+import { playedInput, toPedalEvents, toPlayedEvents } from '#shared/utils/timeline'
 import { COMPUTER_KEYS_OCTAVE, COMPUTER_KEYS_VELOCITY } from '~/composables/useComputerKeys'
 
 // Each field falls back on its own, so one bad value left by an older release keeps the rest.
@@ -13,9 +13,14 @@ const PracticeSettings = z.object({
   inputDevice: InputDevice.catch('midi'),
   soundOn: z.boolean().catch(true),
   metronomeVolume: z.number().min(0).max(1).catch(0.7),
+  metronomeMuted: z.boolean().catch(false),
   handSize: HandSize.catch('medium'),
   keyMapOctave: z.number().int().min(COMPUTER_KEYS_OCTAVE.min).max(COMPUTER_KEYS_OCTAVE.max).catch(COMPUTER_KEYS_OCTAVE.default),
   computerKeysVelocity: z.number().int().min(1).max(127).catch(COMPUTER_KEYS_VELOCITY),
+  /** Hide everything but the drill, the keyboard and the status while playing. */
+  focusMode: z.boolean().catch(false),
+  /** The tempo the student last chose for each drill (by id), when it was below the ceiling then. */
+  chosenTempos: z.record(z.string().regex(/^\d{1,10}$/), z.number().int().min(TEMPO_LIMITS.min).max(TEMPO_LIMITS.max)).catch({}),
 })
 export type PracticeSettings = z.infer<typeof PracticeSettings>
 
@@ -71,9 +76,11 @@ export const usePracticeStore = defineStore('practice', () => {
   const inputDevice = setting('inputDevice')
   const soundOn = setting('soundOn')
   const metronomeVolume = setting('metronomeVolume')
+  const metronomeMuted = setting('metronomeMuted')
   const handSize = setting('handSize')
   const keyMapOctave = setting('keyMapOctave')
   const computerKeysVelocity = setting('computerKeysVelocity')
+  const focusMode = setting('focusMode')
 
   const targetBpm = ref<number | null>(null)
   const chosenBpm = ref(80)
@@ -84,6 +91,29 @@ export const usePracticeStore = defineStore('practice', () => {
       if (Number.isFinite(bpm)) chosenBpm.value = clampTempo(bpm, targetBpm.value)
     },
   })
+  const openDrillId = ref<number | null>(null)
+
+  /**
+   * Opens a drill at its ceiling (the teacher's target, else the drill's tempo), or at the tempo the
+   * student last chose for it when that is lower: a perfect run at the opening tempo reaches the
+   * tempo the grade compares with.
+   */
+  function openDrill(drillId: number, ceilingBpm: number): void {
+    openDrillId.value = null
+    setTargetTempo(ceilingBpm, settings.value.chosenTempos[String(drillId)] ?? ceilingBpm)
+    openDrillId.value = drillId
+  }
+
+  /** The student's own choice of tempo for the open drill, remembered for the next visit. */
+  function chooseTempo(bpm: number): void {
+    tempoBpm.value = bpm
+    const id = openDrillId.value
+    if (id === null) return
+    const { [String(id)]: _previous, ...others } = settings.value.chosenTempos
+    // At the ceiling there is nothing to remember: the drill opens there anyway.
+    const chosenTempos = tempoBpm.value < (targetBpm.value ?? TEMPO_LIMITS.max) ? { ...others, [String(id)]: tempoBpm.value } : others
+    settings.value = { ...settings.value, chosenTempos }
+  }
 
   /** Sets the teacher's ceiling (null: none) and, optionally, the tempo to start from. */
   function setTargetTempo(target: number | null, startBpm?: number): void {
@@ -148,6 +178,8 @@ export const usePracticeStore = defineStore('practice', () => {
     if (timeZeroMs === null) throw new Error('The attempt has no time zero yet: call setTimeZero() when the count-in is scheduled')
     const parsed = AttemptInput.safeParse({
       ...meta,
+      // What was really played on, whatever was chosen: it decides whether velocities count.
+      inputDevice: playedInput(notes, meta.inputDevice),
       events: toPlayedEvents(notes, timeZeroMs, meta.tempoBpm),
       pedal: toPedalEvents(pedal, timeZeroMs, meta.tempoBpm),
     })
@@ -173,12 +205,16 @@ export const usePracticeStore = defineStore('practice', () => {
     inputDevice,
     soundOn,
     metronomeVolume,
+    metronomeMuted,
     handSize,
     keyMapOctave,
     computerKeysVelocity,
+    focusMode,
     targetBpm: computed(() => targetBpm.value),
     tempoBpm,
     setTargetTempo,
+    openDrill,
+    chooseTempo,
     current: computed(() => current.value),
     eventCount: computed(() => eventCount.value),
     begin,

@@ -59,6 +59,11 @@ function resumeOnFirstGesture(Tone: Tone): void {
   events.forEach(e => window.addEventListener(e, resume, true))
 }
 
+/** The native audio context once tone is loaded (the piano decodes its samples with it). */
+export function audioContext(): AudioContext | null {
+  return rawContext
+}
+
 /** Whether audio is allowed to sound yet (false until the first user gesture). */
 export function audioRunning(): boolean {
   return rawContext?.state === 'running'

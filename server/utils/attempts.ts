@@ -2,6 +2,7 @@ import type { Knex } from 'knex'
 import { z } from 'zod'
 import type { User } from '#auth-utils'
 import type { AttemptInput } from '#shared/types/attempt'
+import { trustedEvents } from '#shared/utils/timeline'
 import { ENGINE_VERSION, gradeAttempt, type GradeResult } from '#shared/engine'
 
 export const AttemptParams = z.object({ id: z.uuid({ error: 'not an attempt id' }) })
@@ -95,7 +96,8 @@ export async function saveAttempt(db: Knex, student: User, input: AttemptInput):
     targetBpm = item.target_tempo_bpm ?? targetBpm
   }
 
-  const result = gradeAttempt({ hand: drill.hand, tempoBpm: drill.tempoBpm, notes: drill.notes }, input.events, { targetBpm })
+  const events = trustedEvents(input.events, input.inputDevice)
+  const result = gradeAttempt({ hand: drill.hand, tempoBpm: drill.tempoBpm, notes: drill.notes }, events, { targetBpm })
   try {
     await db('attempts').insert({
       id: input.id,
@@ -107,7 +109,7 @@ export async function saveAttempt(db: Knex, student: User, input: AttemptInput):
       tempo_bpm: input.tempoBpm,
       input_device: input.inputDevice,
       device_name: input.deviceName ?? null,
-      events: JSON.stringify(input.events),
+      events: JSON.stringify(events),
       pedal: input.pedal ? JSON.stringify(input.pedal) : null,
       score: Math.round(result.score),
       result: JSON.stringify(result),

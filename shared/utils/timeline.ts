@@ -1,4 +1,4 @@
-import type { PedalEvent, PlayedEvent } from '../types/attempt'
+import type { InputDevice, PedalEvent, PlayedEvent } from '../types/attempt'
 import type { LiveNoteEvent, LivePedalEvent } from '../types/live'
 
 /** How far before beat 0 notes still count: the count-in's last beat. */
@@ -33,7 +33,9 @@ export function toPlayedEvents(notes: readonly LiveNoteEvent[], timeZeroMs: numb
       continue
     }
     if (timeMs < earliestMs) continue
-    events.push({ note: n.note, on: n.on, velocity: n.velocity, timeMs })
+    // Only a MIDI keyboard measures how hard a key was struck; a computer key or a tap on the screen
+    // plays a fixed or guessed loudness, which would make any touch look perfectly even.
+    events.push(n.source === 'midi' ? { note: n.note, on: n.on, velocity: n.velocity, timeMs } : { note: n.note, on: n.on, timeMs })
   }
   // Inputs are merged as they arrive; a MIDI message can be stamped slightly before a key event.
   return events.sort((a, b) => a.timeMs - b.timeMs)
@@ -45,4 +47,27 @@ export function toPedalEvents(pedal: readonly LivePedalEvent[], timeZeroMs: numb
   return pedal
     .map(p => ({ down: p.down, timeMs: relativeMs(p.timeStampMs, timeZeroMs) }))
     .filter(p => p.timeMs >= earliestMs)
+}
+
+/**
+ * The input an attempt was played on: the one that played most of its key presses (the first of
+ * them on a tie), or `chosen` when nothing was pressed.
+ */
+export function playedInput(notes: readonly LiveNoteEvent[], chosen: InputDevice): InputDevice {
+  const counts = new Map<InputDevice, number>()
+  for (const n of notes) if (n.on) counts.set(n.source, (counts.get(n.source) ?? 0) + 1)
+  let best: InputDevice = chosen
+  let most = 0
+  for (const [source, count] of counts) {
+    if (count > most) {
+      best = source
+      most = count
+    }
+  }
+  return best
+}
+
+/** The events the server grades: velocities kept only from a MIDI keyboard, the one input that measures them. */
+export function trustedEvents(events: readonly PlayedEvent[], inputDevice: InputDevice): PlayedEvent[] {
+  return inputDevice === 'midi' ? [...events] : events.map(({ velocity: _velocity, ...rest }) => rest)
 }

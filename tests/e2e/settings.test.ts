@@ -18,8 +18,8 @@ describe('the settings page', () => {
     const { page } = browser
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Settings' }).click()
     await page.waitForURL(/\/settings$/)
-    await expect.poll(() => page.locator('#midi-device option').allTextContents()).toContain(FAKE_MIDI_INPUT_NAME)
-    await page.locator('#midi-device').selectOption({ label: FAKE_MIDI_INPUT_NAME })
+    await expect.poll(() => page.locator('#play-with option').allTextContents()).toContain(`${FAKE_MIDI_INPUT_NAME} (MIDI)`)
+    await page.locator('#play-with').selectOption({ label: `${FAKE_MIDI_INPUT_NAME} (MIDI)` })
     await page.getByRole('radio', { name: /Large/ }).check()
     await page.getByTestId('sound-on').uncheck()
     expect(await page.getByTestId('key-map-octave').textContent()).toContain('A plays C4')
@@ -32,7 +32,7 @@ describe('the settings page', () => {
     expect(await page.getByRole('radio', { name: /Medium/ }).isChecked()).toBe(false)
     expect(await page.getByTestId('sound-on').isChecked()).toBe(false)
     expect(await page.getByTestId('key-map-octave').textContent()).toContain('A plays C5')
-    expect(await page.locator('#midi-device').inputValue()).toBe('fake-input-1')
+    expect(await page.locator('#play-with').inputValue()).toBe('midi:fake-input-1')
   })
 
   it('times fake MIDI presses to the painted key and reports their median', async () => {

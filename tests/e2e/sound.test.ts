@@ -46,7 +46,7 @@ beforeAll(async () => {
   browser = await openStudentWithFakeMidi([audioTapScript])
   const { page } = browser
   await page.goto(`/practice/${row.id}`)
-  await page.locator('#midi-input').selectOption({ label: FAKE_MIDI_INPUT_NAME })
+  await page.locator('#play-with').selectOption({ label: `${FAKE_MIDI_INPUT_NAME} (MIDI)` })
   await page.getByTestId('drill-title').click() // a user gesture, which browsers want before audio
   await page.waitForFunction(() => (window as unknown as { __audioTap: AudioTap }).__audioTap.running() > 0)
   // The samples load in the background; a key sounds once they are decoded.

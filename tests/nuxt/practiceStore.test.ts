@@ -43,6 +43,31 @@ describe('practice tempo', () => {
     expect(() => practice.setTargetTempo(10)).toThrow('The target tempo must be between 20 and 320 beats per minute, got 10')
   })
 
+  it('opens a drill at the teacher’s target, not at a default below it', () => {
+    const practice = usePracticeStore()
+    practice.openDrill(7, 84)
+    expect(practice.tempoBpm).toBe(84)
+  })
+
+  it('opens a drill at the student’s lower chosen tempo on the next visit, never above a new target', () => {
+    const practice = usePracticeStore()
+    practice.openDrill(7, 84)
+    practice.chooseTempo(66)
+    practice.openDrill(8, 100)
+    expect(practice.tempoBpm).toBe(100)
+    setActivePinia(createPinia())
+    const next = usePracticeStore()
+    next.openDrill(7, 84)
+    expect(next.tempoBpm).toBe(66)
+    next.openDrill(7, 60)
+    expect(next.tempoBpm).toBe(60)
+    // Back at the ceiling the choice is forgotten, so a raised target opens at the target.
+    next.openDrill(7, 84)
+    next.chooseTempo(84)
+    next.openDrill(7, 90)
+    expect(next.tempoBpm).toBe(90)
+  })
+
   it('plays the attempt at the clamped tempo', () => {
     const practice = usePracticeStore()
     practice.setTargetTempo(90, 150)

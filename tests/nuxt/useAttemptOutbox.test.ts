@@ -169,6 +169,37 @@ describe('useAttemptOutbox', () => {
     await vi.waitFor(() => expect(stored()).toEqual([]))
   })
 
+  it('never sends an attempt played while signed out as whoever signs in next; it waits to be claimed or discarded', async () => {
+    useState('nuxt-session').value = null
+    const outbox = visit()
+    const outcome = await outbox.save(attempt(A))
+    expect(outcome.status).toBe('queued')
+    await outbox.save(attempt(B))
+
+    useState('nuxt-session').value = { user: { id: 6, email: 'bo@evenhand.test', name: 'Bo', role: 'student' } }
+    await nextTick()
+    await outbox.flush()
+    expect(received).toEqual([])
+    expect(outbox.pending.value).toEqual([])
+    expect(outbox.unclaimed.value.map(e => e.attempt.id).sort()).toEqual([B, A].sort())
+
+    await outbox.claim(A)
+    expect(received.map(a => a.id)).toEqual([A])
+    outbox.discard(B)
+    expect(stored()).toEqual([])
+    expect(() => outbox.discard(A)).toThrow(/signed out/)
+  })
+
+  it('shows a refused attempt with the server’s reason until the student discards it', async () => {
+    respond = () => ({ status: 400, message: 'drillVersion: This version of the drill does not exist' })
+    const outbox = visit()
+    await outbox.save(attempt(A))
+    expect(outbox.rejected.value.map(e => [e.attempt.id, e.rejected?.message])).toEqual([[A, 'drillVersion: This version of the drill does not exist']])
+    outbox.discard(A)
+    expect(outbox.rejected.value).toEqual([])
+    expect(stored()).toEqual([])
+  })
+
   it('sends what is waiting when the browser comes back online', async () => {
     respond = () => ({ status: 503 })
     const outbox = visit()

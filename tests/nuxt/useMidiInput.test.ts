@@ -1,7 +1,7 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest'
 import type { EffectScope } from 'vue'
 import type { LiveNoteEvent, LivePedalEvent } from '#shared/types/live'
-import { parseMidiMessage, useMidiInput } from '~/composables/useMidiInput'
+import { useMidiInput } from '~/composables/useMidiInput'
 import type { MidiInput } from '~/composables/useMidiInput'
 import { FakeMidiAccess, FakeMidiInput, installMidi } from './fakeMidi'
 
@@ -30,27 +30,6 @@ afterEach(() => {
   restore = null
 })
 
-describe('parseMidiMessage', () => {
-  it.each([
-    ['note-on', [0x90, 60, 100], { note: 60, on: true, velocity: 100 }],
-    ['note-on on channel 5', [0x94, 61, 1], { note: 61, on: true, velocity: 1 }],
-    ['note-on with velocity 0 as a release', [0x90, 60, 0], { note: 60, on: false, velocity: 0 }],
-    ['note-off with its release velocity', [0x80, 60, 40], { note: 60, on: false, velocity: 40 }],
-    ['sustain pedal at 64 as down', [0xB0, 64, 64], { down: true }],
-    ['sustain pedal at 63 as up', [0xB0, 64, 63], { down: false }],
-  ])('reads a %s', (_, bytes, expected) => {
-    expect(parseMidiMessage(bytes, 12.5)).toEqual({ ...expected, timeStampMs: 12.5, source: 'midi' })
-  })
-
-  it.each([
-    ['another controller', [0xB0, 7, 100]],
-    ['a program change', [0xC0, 3]],
-    ['aftertouch', [0xD0, 50]],
-  ])('ignores %s', (_, bytes) => {
-    expect(parseMidiMessage(bytes, 0)).toBeNull()
-  })
-})
-
 describe('useMidiInput', () => {
   it('reports notes and pedal with the timestamps of the MIDI messages', async () => {
     const keys = new FakeMidiInput('in-1', 'Stage Piano')
@@ -66,14 +45,27 @@ describe('useMidiInput', () => {
     keys.send([0xB0, 64, 127], 1010.5)
     keys.send([0x90, 60, 0], 1250.75)
     keys.send([0xB0, 64, 0], 1300)
+    // Channel 5, a note-off with its release velocity, the pedal's threshold, and messages to ignore.
+    keys.send([0x94, 61, 1], 1400)
+    keys.send([0x84, 61, 40], 1450)
+    keys.send([0xB0, 64, 64], 1500)
+    keys.send([0xB0, 64, 63], 1550)
+    keys.send([0xB0, 7, 100], 1600)
+    keys.send([0xC0, 3], 1650)
+    keys.send([0xD0, 50], 1700)
 
+    // MIDI 1.0: a note-on with velocity 0 is a note-off; controller 64 is down from 64 up.
     expect(notes).toEqual([
       { note: 60, on: true, velocity: 90, timeStampMs: 1000.25, source: 'midi' },
       { note: 60, on: false, velocity: 0, timeStampMs: 1250.75, source: 'midi' },
+      { note: 61, on: true, velocity: 1, timeStampMs: 1400, source: 'midi' },
+      { note: 61, on: false, velocity: 40, timeStampMs: 1450, source: 'midi' },
     ])
     expect(pedal).toEqual([
       { down: true, timeStampMs: 1010.5, source: 'midi' },
       { down: false, timeStampMs: 1300, source: 'midi' },
+      { down: true, timeStampMs: 1500, source: 'midi' },
+      { down: false, timeStampMs: 1550, source: 'midi' },
     ])
   })
 

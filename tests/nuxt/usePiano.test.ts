@@ -5,7 +5,9 @@ import { mockNuxtImport, mountSuspended } from '@nuxt/test-utils/runtime'
 
 const fake = vi.hoisted(() => {
   const state = {
-    options: null as null | { urls: Record<string, string>, baseUrl: string, onload: () => void },
+    options: null as null | { urls: Record<string, { file: string }> },
+    fetched: [] as string[],
+    loadSamples: null as null | (() => void),
     attacks: [] as { note: string, velocity: number }[],
     releases: [] as string[],
   }
@@ -21,6 +23,23 @@ const fake = vi.hoisted(() => {
 
 mockNuxtImport('loadTone', () => () => Promise.resolve(fake.tone))
 mockNuxtImport('audioRunning', () => () => true)
+// The sample files are read from public/ as the server would send them; each decodes to its name.
+mockNuxtImport('audioContext', () => () => ({ decodeAudioData: async (bytes: ArrayBuffer) => ({ file: new TextDecoder().decode(bytes) }) }))
+vi.stubGlobal('fetch', async (url: string) => {
+  fake.state.fetched.push(url)
+  const file = url.split('/').pop()!
+  // Held until the test lets the samples arrive, so it can see a note played before they did.
+  await new Promise<void>((done) => {
+    const previous = fake.state.loadSamples
+    fake.state.loadSamples = () => {
+      previous?.()
+      done()
+    }
+  })
+  return existsSync(resolve('public/samples', file))
+    ? { ok: true, status: 200, arrayBuffer: async () => new TextEncoder().encode(file).buffer }
+    : { ok: false, status: 404 }
+})
 
 async function mountPiano(): Promise<ReturnType<typeof usePiano>> {
   let piano: ReturnType<typeof usePiano> | undefined
@@ -34,29 +53,29 @@ async function mountPiano(): Promise<ReturnType<typeof usePiano>> {
 }
 
 describe('usePiano', () => {
-  it('asks for every sample the render script makes, and each file exists', async () => {
-    await mountPiano()
-    await vi.waitFor(() => expect(fake.state.options).not.toBeNull())
-    const { urls, baseUrl } = fake.state.options!
-    expect(baseUrl).toMatch(/\/samples\/$/)
-    expect(Object.keys(urls)).toHaveLength(30)
-    expect(urls['A0']).toBe('A0.ogg')
-    expect(urls['D#1']).toBe('Ds1.ogg')
-    expect(urls['C8']).toBe('C8.ogg')
-    for (const file of Object.values(urls)) {
-      // vitest runs from the project root.
-      expect(existsSync(resolve('public/samples', file)), file).toBe(true)
-    }
-  })
-
-  it('drops notes that arrive before the samples load, then plays by name with velocity scaled to 0–1', async () => {
+  it('loads every sample the render script makes, counting them as they arrive', async () => {
     const piano = await mountPiano()
+    await vi.waitFor(() => expect(fake.state.fetched).toHaveLength(30))
+    expect(piano.progress.value).toBe(0)
+    // A note before the samples is dropped: sounding it late would be worse.
     expect(() => piano.noteOn(60, 100)).not.toThrow()
     expect(() => piano.noteOff(60)).not.toThrow()
     expect(fake.state.attacks).toHaveLength(0)
-    expect(piano.loaded.value).toBe(false)
+    for (const url of fake.state.fetched) expect(url).toMatch(/\/samples\/[A-G]s?\d\.ogg$/)
+    fake.state.loadSamples!()
+    await vi.waitFor(() => expect(piano.loaded.value).toBe(true))
+    expect(piano.progress.value).toBe(1)
+    expect(piano.failed.value).toBe(false)
+    const { urls } = fake.state.options!
+    // vitest runs from the project root; a missing file would have failed the loading.
+    expect(Object.keys(urls)).toHaveLength(30)
+    expect(urls['A0']).toEqual({ file: 'A0.ogg' })
+    expect(urls['D#1']).toEqual({ file: 'Ds1.ogg' })
+    expect(urls['C8']).toEqual({ file: 'C8.ogg' })
+  })
 
-    fake.state.options!.onload()
+  it('plays by name with velocity scaled to 0–1 once loaded, and stops when switched off', async () => {
+    const piano = await mountPiano()
     expect(piano.loaded.value).toBe(true)
     piano.noteOn(61, 127)
     piano.noteOn(60, 0)
@@ -73,7 +92,6 @@ describe('usePiano', () => {
 
   it('holds released keys while the sustain pedal is down and lets them go when it comes up', async () => {
     const piano = await mountPiano()
-    fake.state.options!.onload()
     piano.enabled.value = true
     fake.state.releases.length = 0
     piano.noteOn(60, 80)

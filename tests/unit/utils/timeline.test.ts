@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import type { LiveNoteEvent } from '../../../shared/types/live'
-import { toPedalEvents, toPlayedEvents } from '../../../shared/utils/timeline'
+import { playedInput, toPedalEvents, toPlayedEvents, trustedEvents } from '../../../shared/utils/timeline'
 
 function note(n: number, on: boolean, timeStampMs: number): LiveNoteEvent {
   return { note: n, on, velocity: on ? 80 : 0, timeStampMs, source: 'midi' }
@@ -40,5 +40,27 @@ describe('toPedalEvents', () => {
       { down: true, timeStampMs: 1600, source: 'midi' },
     ], 1000, 120)
     expect(pedal).toEqual([{ down: false, timeMs: -300 }, { down: true, timeMs: 600 }])
+  })
+})
+
+describe('what an attempt says about its input', () => {
+  const press = (source: LiveNoteEvent['source'], t: number): LiveNoteEvent => ({ note: 60, on: true, velocity: 80, timeStampMs: t, source })
+
+  it('keeps velocities only from a MIDI keyboard', () => {
+    const events = toPlayedEvents([press('midi', 1000), press('computer-keys', 1100), press('screen', 1200)], 1000, 60)
+    expect(events.map(e => e.velocity)).toEqual([80, undefined, undefined])
+    expect(events.filter(e => 'velocity' in e)).toHaveLength(1)
+  })
+
+  it('names the input that played most of the presses, and the chosen one when nothing was played', () => {
+    expect(playedInput([press('computer-keys', 1), press('computer-keys', 2), press('midi', 3)], 'midi')).toBe('computer-keys')
+    expect(playedInput([press('screen', 1), { ...press('midi', 2), on: false }], 'midi')).toBe('screen')
+    expect(playedInput([], 'computer-keys')).toBe('computer-keys')
+  })
+
+  it('drops velocities a client sent for an input that has none, before the server grades', () => {
+    const events = [{ note: 60, on: true, velocity: 90, timeMs: 0 }, { note: 60, on: false, velocity: 0, timeMs: 300 }]
+    expect(trustedEvents(events, 'computer-keys')).toEqual([{ note: 60, on: true, timeMs: 0 }, { note: 60, on: false, timeMs: 300 }])
+    expect(trustedEvents(events, 'midi')).toEqual(events)
   })
 })
