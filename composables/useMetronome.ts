@@ -21,6 +21,8 @@ export interface MetronomeStart {
   bpm: number
   beatsPerBar: number
   countInBars?: number
+  /** Seconds from now to the first click (default 0.1: just time to schedule it). */
+  startDelayS?: number
   onBeat?: (beat: MetronomeBeat) => void
 }
 
@@ -58,7 +60,7 @@ export function useMetronome(options: MetronomeOptions = {}) {
   })
 
   async function start(options: MetronomeStart): Promise<{ zeroMs: number }> {
-    const { bpm, beatsPerBar, countInBars = 1, onBeat } = options
+    const { bpm, beatsPerBar, countInBars = 1, startDelayS = START_DELAY_S, onBeat } = options
     if (!(bpm > 0 && Number.isFinite(bpm))) throw new RangeError(`Tempo must be a positive number of beats per minute, got ${bpm}`)
     if (!(Number.isInteger(beatsPerBar) && beatsPerBar > 0)) throw new RangeError(`Beats per bar must be a positive whole number, got ${beatsPerBar}`)
     if (!(Number.isInteger(countInBars) && countInBars >= 0)) throw new RangeError(`Count-in bars must be a whole number, got ${countInBars}`)
@@ -76,7 +78,7 @@ export function useMetronome(options: MetronomeOptions = {}) {
 
     const secondsPerBeat = 60 / bpm
     const firstBeat = -countInBars * beatsPerBar
-    const startTime = audioNow() + START_DELAY_S
+    const startTime = audioNow() + Math.max(START_DELAY_S, startDelayS)
     const beatTime = (index: number): number => startTime + (index - firstBeat) * secondsPerBeat
     const zeroMs = audioTimeToPerformanceMs(beatTime(0))
 

@@ -81,6 +81,16 @@ export function usePiano() {
     else sampler.triggerRelease(noteName(midi))
   }
 
+  /**
+   * A note the app plays itself (listen first, the other hand), heard at `atMs` on the
+   * performance.now() clock for `durationMs`; scheduled on the audio clock, so it is on time.
+   */
+  function playAt(midi: number, velocity: number, atMs: number, durationMs: number): void {
+    if (!enabled.value || !loaded.value || !sampler || !audioRunning()) return
+    const when = Math.max(audioNow(), performanceMsToAudioTime(atMs))
+    sampler.triggerAttackRelease(noteName(midi), durationMs / 1000, when, Math.min(Math.max(velocity, 1), 127) / 127)
+  }
+
   /** The sustain pedal (MIDI CC64): lifting it releases every key let go while it was down. */
   function sustain(down: boolean): void {
     pedalDown = down
@@ -104,7 +114,7 @@ export function usePiano() {
     load().catch((error: unknown) => console.error('Piano samples failed to load', error))
   })
 
-  return { enabled, loaded: readonly(loaded), progress: readonly(progress), failed: readonly(failed), noteOn, noteOff, sustain, releaseAll, load }
+  return { enabled, loaded: readonly(loaded), progress: readonly(progress), failed: readonly(failed), noteOn, playAt, noteOff, sustain, releaseAll, load }
 }
 
 /** tone reads a bare number as a frequency in Hz, so notes go in by name (`C#4`). */

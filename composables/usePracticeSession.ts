@@ -1,12 +1,18 @@
 // One practice session on one drill: the inputs wired to the piano and the recording, the count-in,
 // the guide through the drill, grading and saving. The practice page keeps only the layout.
 //   const session = usePracticeSession({ drill, assignmentId, ceilingBpm })
-//   session.state – one typed state: ready → counting → playing → done (with the grade and its saving)
-//   session.start(), session.finish(), session.stop(); session.press/release for the on-screen keys
+//   session.state – one typed state: ready → (listening →) counting → playing → done
+//   session.last – the last pass's grade and its saving; a loop keeps it on screen while the next pass plays
+//   session.start(), session.finish(), session.stop(), session.listen(); press/release for the on-screen keys
+//   session.part (bars, hand), otherHand, loop, ladder: the practice tools; every pass is its own attempt
 import { gradeAttempt, midiFromName, type GradeResult } from '#shared/engine'
-import type { InputDevice } from '#shared/types/attempt'
+import type { AttemptPart, InputDevice } from '#shared/types/attempt'
 import type { DrillMusic, DrillNote } from '#shared/types/drill'
 import type { LiveNoteEvent, LivePedalEvent } from '#shared/types/live'
+import { barCount, beatsPerBar as beatsPerBarOf, drillPart } from '#shared/utils/part'
+import { DEFAULT_LADDER, ladderNextBpm, ladderStartBpm } from '#shared/utils/tempo'
+import type { TempoLadder } from '#shared/utils/tempo'
+import type { InjectionKey } from 'vue'
 
 export interface PracticeDrill extends DrillMusic {
   id: number
@@ -22,9 +28,26 @@ export type SaveState =
 
 export type PracticeState =
   | { phase: 'ready' }
-  | { phase: 'counting' }
-  | { phase: 'playing' }
-  | { phase: 'done', result: GradeResult, save: SaveState, tempoBpm: number }
+  | { phase: 'listening' }
+  | { phase: 'counting', pass: number }
+  | { phase: 'playing', pass: number }
+  | { phase: 'done' }
+
+/** One graded pass: its grade (the server's once saved), how its saving went, and what it played. */
+export interface PassResult {
+  pass: number
+  result: GradeResult
+  save: SaveState
+  tempoBpm: number
+  /** The notes it was graded against (the part's, or the whole drill's). */
+  notes: DrillNote[]
+}
+
+export interface LoopSettings {
+  on: boolean
+  /** A count-in bar before every pass; without it the next pass starts one beat after the last one ends. */
+  countIn: boolean
+}
 
 export interface PracticeSessionOptions {
   drill: Ref<PracticeDrill | null>
@@ -56,6 +79,14 @@ export function stepsOf(notes: readonly DrillNote[]): number[][] {
   return [...byBeat.entries()].sort((a, b) => a[0] - b[0]).map(([, ix]) => ix)
 }
 
+/** How far ahead the app's own notes are put on the audio clock, and how often it looks (as the metronome). */
+const SCHEDULE_AHEAD_MS = 120
+const SCHEDULE_TICK_MS = 25
+/** A calm mezzo-forte for the notes the app plays. */
+const APP_VELOCITY = 70
+/** Time to settle before "listen first" begins. */
+const LISTEN_LEAD_MS = 400
+
 export function usePracticeSession(options: PracticeSessionOptions) {
   const { drill, assignmentId, ceilingBpm } = options
   const store = usePracticeStore()
@@ -72,17 +103,35 @@ export function usePracticeSession(options: PracticeSessionOptions) {
   }, { immediate: true })
 
   const music = computed<DrillMusic | null>(() => drill.value && { hand: drill.value.hand, tempoBpm: drill.value.tempoBpm, notes: drill.value.notes })
-  const midiOf = computed(() => (drill.value?.notes ?? []).map(n => midiFromName(n.pitch)))
-  const beatsPerBar = computed(() => Number(drill.value?.meter.split('/')[0]) || 4)
+  const beatsPerBar = computed(() => beatsPerBarOf(drill.value?.meter))
+  const bars = computed(() => barCount(drill.value?.notes ?? [], beatsPerBar.value))
+
+  // The tools: which bars and hand to play, whether the app sounds the other hand, a loop, a ladder.
+  const part = shallowRef<AttemptPart | null>(null)
+  const otherHand = ref<'sounded' | 'silent'>('sounded')
+  const loop = reactive<LoopSettings>({ on: false, countIn: true })
+  const ladder = reactive<TempoLadder & { on: boolean }>({ on: false, ...DEFAULT_LADDER })
+  watch(() => ladder.on, (on) => {
+    if (on && ceilingBpm.value) store.tempoBpm = ladderStartBpm(ceilingBpm.value, ladder)
+  })
+
+  /** What is played and graded now: the chosen bars and hand, else the whole drill. */
+  const played = computed(() => (music.value ? drillPart(music.value, part.value, beatsPerBar.value) : null))
+  const notes = computed(() => played.value?.music.notes ?? [])
+  const midiOf = computed(() => notes.value.map(n => midiFromName(n.pitch)))
   // Grading no performance at all yields the plan's own position changes, computed exactly as the grade will.
-  const plannedAt = computed(() => (music.value ? gradeAttempt(music.value, []).positionChanges.plannedAt : []))
-  const steps = computed(() => stepsOf(drill.value?.notes ?? []))
-  const range = computed(() => keyboardRange(midiOf.value))
-  const narrowRange = computed(() => tightRange(midiOf.value))
+  const plannedAt = computed(() => (played.value ? gradeAttempt(played.value.music, []).positionChanges.plannedAt : []))
+  const steps = computed(() => stepsOf(notes.value))
+  // The keyboard spans the whole drill, so the keys stay put when a part is chosen.
+  const allMidi = computed(() => (drill.value?.notes ?? []).map(n => midiFromName(n.pitch)))
+  const range = computed(() => keyboardRange(allMidi.value))
+  const narrowRange = computed(() => tightRange(allMidi.value))
 
   const state = shallowRef<PracticeState>({ phase: 'ready' })
   const active = computed(() => state.value.phase === 'counting' || state.value.phase === 'playing')
-  const result = computed(() => (state.value.phase === 'done' ? state.value.result : null))
+  const busy = computed(() => active.value || state.value.phase === 'listening')
+  const last = shallowRef<PassResult | null>(null)
+  const result = computed(() => (state.value.phase === 'done' ? last.value?.result ?? null : null))
   /** One sentence for screen readers at each moment a player needs: count-in, start, end, result. */
   const announcement = ref('')
   const error = ref('')
@@ -102,12 +151,58 @@ export function usePracticeSession(options: PracticeSessionOptions) {
     return current.map(i => midiOf.value[i]!)
   })
   const fingers = computed(() => {
-    const notes = drill.value?.notes ?? []
-    const shown = state.value.phase === 'done' ? notes.map((_, i) => i) : steps.value[stepIndex.value] ?? []
-    return shown.flatMap(i => (notes[i]?.finger ? [{ midi: midiOf.value[i]!, finger: notes[i]!.finger! }] : []))
+    const shown = state.value.phase === 'done' ? notes.value.map((_, i) => i) : steps.value[stepIndex.value] ?? []
+    return shown.flatMap(i => (notes.value[i]?.finger ? [{ midi: midiOf.value[i]!, finger: notes.value[i]!.finger! }] : []))
   })
   const inferredKeys = computed(() => (result.value?.inferredFingers ?? []).flatMap((f, i) => (f.finger ? [{ midi: midiOf.value[i]!, finger: f.finger }] : [])))
   const shiftKeys = computed(() => (result.value ? result.value.positionChanges.at.map(i => midiOf.value[i]!) : []))
+
+  /**
+   * Plays notes on the piano at their beats from `zeroMs`, a little ahead on the audio clock (like
+   * the metronome), so a busy page cannot make them late; `light` also shows them on the keys and the
+   * guide. Returns a function that cancels what is not yet scheduled.
+   */
+  function playNotes(list: readonly DrillNote[], zeroMs: number, beatMs: number, light: boolean): () => void {
+    const timers = new Set<ReturnType<typeof setTimeout>>()
+    const later = (atMs: number, fn: () => void): void => {
+      const id = setTimeout(() => {
+        timers.delete(id)
+        fn()
+      }, Math.max(0, atMs - performance.now()))
+      timers.add(id)
+    }
+    const order = list.map((n, i) => ({ n, i, atMs: zeroMs + n.beat * beatMs })).sort((x, y) => x.atMs - y.atMs)
+    const stepOf = new Map(steps.value.flatMap((ix, k) => ix.map(i => [i, k] as const)))
+    let next = 0
+    const tick = (): void => {
+      while (next < order.length && order[next]!.atMs < performance.now() + SCHEDULE_AHEAD_MS) {
+        const { n, i, atMs } = order[next++]!
+        const midi = midiFromName(n.pitch)
+        const lengthMs = n.length * beatMs * 0.95
+        piano.playAt(midi, APP_VELOCITY, atMs, lengthMs)
+        if (light) {
+          later(atMs, () => {
+            pressed.add(midi)
+            stepIndex.value = stepOf.get(i) ?? stepIndex.value
+          })
+          later(atMs + lengthMs, () => pressed.delete(midi))
+        }
+      }
+      if (next >= order.length) clearInterval(interval)
+    }
+    const interval = setInterval(tick, SCHEDULE_TICK_MS)
+    tick()
+    return () => {
+      clearInterval(interval)
+      timers.forEach(clearTimeout)
+      if (light) pressed.clear()
+    }
+  }
+  let cancelAppNotes: (() => void) | null = null
+  function stopAppNotes(): void {
+    cancelAppNotes?.()
+    cancelAppNotes = null
+  }
 
   function showStep(): void {
     if (guidePending) return
@@ -187,31 +282,45 @@ export function usePracticeSession(options: PracticeSessionOptions) {
 
   /** The samples are loading: the start waits for them unless the piano is switched off. */
   const waitingForPiano = computed(() => store.soundOn && !piano.loaded.value && !piano.failed.value)
+  let pass = 0
 
-  async function start(): Promise<void> {
+  /** Starts a pass: with the count-in, or (a loop without it) one beat after the last pass ended. */
+  async function start(options: { countIn?: boolean } = {}): Promise<void> {
     const current = drill.value
-    if (!current || active.value || waitingForPiano.value) return
+    if (!current || busy.value || waitingForPiano.value) return
+    if (!played.value) {
+      error.value = 'The chosen bars hold no notes for that hand.'
+      return
+    }
+    const countIn = options.countIn ?? true
     error.value = ''
     step = 0
     stepIndex.value = 0
     stepHits = new Set()
     clearFinish()
+    stopAppNotes()
+    if (state.value.phase !== 'done' || !loop.on) pass = 0
+    pass++
     store.begin({ drillId: current.id, drillVersion: current.version, assignmentId: assignmentId.value, inputDevice: store.inputDevice, deviceName: store.inputDevice === 'midi' ? midi.selected.value?.name : undefined })
-    state.value = { phase: 'counting' }
-    announcement.value = `Count-in: ${beatsPerBar.value} beats at ${store.tempoBpm} beats per minute.`
+    state.value = { phase: 'counting', pass }
+    const beatMs = 60_000 / store.tempoBpm
+    announcement.value = countIn ? `Count-in: ${beatsPerBar.value} beats at ${store.tempoBpm} beats per minute.` : `Pass ${pass} at ${store.tempoBpm} beats per minute.`
     try {
       const { zeroMs } = await metronome.start({
         bpm: store.tempoBpm,
         beatsPerBar: beatsPerBar.value,
-        countInBars: 1,
+        countInBars: countIn ? 1 : 0,
+        startDelayS: countIn ? undefined : beatMs / 1000,
         onBeat: (beat) => {
           if (beat.index === 0 && state.value.phase === 'counting') {
-            state.value = { phase: 'playing' }
-            announcement.value = 'Play now.'
+            state.value = { phase: 'playing', pass }
+            announcement.value = countIn ? 'Play now.' : ''
           }
         },
       })
       store.setTimeZero(zeroMs)
+      const others = played.value?.others ?? []
+      if (part.value?.hand && otherHand.value === 'sounded' && others.length) cancelAppNotes = playNotes(others, zeroMs, beatMs, false)
     }
     catch (e) {
       state.value = { phase: 'ready' }
@@ -221,18 +330,41 @@ export function usePracticeSession(options: PracticeSessionOptions) {
     }
   }
 
+  /** "Listen first": the app plays the part at the practice tempo, lighting keys and fingers as it goes. */
+  function listen(): void {
+    const current = played.value
+    if (!current || busy.value || waitingForPiano.value) return
+    error.value = ''
+    stopAppNotes()
+    const beatMs = 60_000 / store.tempoBpm
+    const zeroMs = performance.now() + LISTEN_LEAD_MS
+    const all = [...current.music.notes, ...(otherHand.value === 'sounded' ? current.others : [])]
+    const endMs = Math.max(...all.map(n => (n.beat + n.length) * beatMs))
+    state.value = { phase: 'listening' }
+    announcement.value = `Listen: the drill at ${store.tempoBpm} beats per minute.`
+    cancelAppNotes = playNotes(all, zeroMs, beatMs, true)
+    finishTimer = setTimeout(() => {
+      finishTimer = null
+      stopAppNotes()
+      stepIndex.value = 0
+      state.value = { phase: 'ready' }
+      announcement.value = 'Your turn.'
+    }, LISTEN_LEAD_MS + endMs + 200)
+  }
+
   async function finish(): Promise<void> {
     clearFinish()
     if (!active.value) return
     metronome.stop()
-    const current = music.value
+    stopAppNotes()
+    const current = played.value
     if (!store.current || !current) {
       state.value = { phase: 'ready' }
       return
     }
     let attempt
     try {
-      attempt = store.finish()
+      attempt = { ...store.finish(), part: part.value }
     }
     catch (e) {
       state.value = { phase: 'ready' }
@@ -240,34 +372,44 @@ export function usePracticeSession(options: PracticeSessionOptions) {
       return
     }
     // The grade shows at once from the engine here; the server grades the same events again and stores its own.
-    const local = gradeAttempt(current, attempt.events, { targetBpm: ceilingBpm.value ?? undefined, handSize: store.handSize })
-    state.value = { phase: 'done', result: local, save: { status: 'saving' }, tempoBpm: attempt.tempoBpm }
-    announcement.value = `Finished. Score ${Math.round(local.score)} out of 100; saving.`
-    const outcome = await outbox.save(attempt)
-    if (state.value.phase !== 'done' || state.value.result !== local) return
-    if (outcome.status === 'sent') {
-      state.value = { ...state.value, result: outcome.attempt.result, save: { status: 'saved' } }
-      announcement.value = `Saved. Score ${Math.round(outcome.attempt.result.score)} out of 100.`
-      options.onSaved?.()
+    const local = gradeAttempt(current.music, attempt.events, { targetBpm: ceilingBpm.value ?? undefined, handSize: store.handSize })
+    const mine: PassResult = { pass, result: local, save: { status: 'saving' }, tempoBpm: attempt.tempoBpm, notes: current.music.notes }
+    last.value = mine
+    state.value = { phase: 'done' }
+    const score = Math.round(local.score)
+    let said = loop.on ? `Pass ${pass}: score ${score}.` : `Finished. Score ${score} out of 100.`
+    if (ladder.on && ceilingBpm.value) {
+      const next = ladderNextBpm(store.tempoBpm, local.score, ceilingBpm.value, ladder)
+      if (next > store.tempoBpm) said += ` Tempo up to ${next}.`
+      store.tempoBpm = next
     }
-    else {
-      state.value = { ...state.value, save: { status: outcome.status === 'queued' ? 'waiting' : 'rejected', message: outcome.message } }
-      announcement.value = `Score ${Math.round(local.score)} out of 100. ${outcome.message}`
-    }
+    announcement.value = said
+    const saving = outbox.save(attempt).then((outcome) => {
+      const save: SaveState = outcome.status === 'sent' ? { status: 'saved' } : { status: outcome.status === 'queued' ? 'waiting' : 'rejected', message: outcome.message }
+      if (last.value === mine) last.value = { ...mine, save, result: outcome.status === 'sent' ? outcome.attempt.result : local }
+      if (outcome.status === 'sent') options.onSaved?.()
+      else if (!loop.on) announcement.value = `${said} ${outcome.message}`
+    })
+    // Each pass of a loop is its own attempt: the next one starts while this one is saved.
+    if (loop.on) void start({ countIn: loop.countIn })
+    else await saving
   }
 
   /** Stops without keeping the attempt (the student wants to start again). */
   function stop(): void {
+    const listening = state.value.phase === 'listening'
     clearFinish()
     metronome.stop()
+    stopAppNotes()
     store.cancel()
     state.value = { phase: 'ready' }
-    announcement.value = 'Stopped; nothing was kept.'
+    announcement.value = listening ? 'Stopped.' : 'Stopped; this pass was not kept.'
   }
 
   onBeforeUnmount(() => {
     clearFinish()
     metronome.stop()
+    stopAppNotes()
     piano.releaseAll()
   })
 
@@ -277,7 +419,16 @@ export function usePracticeSession(options: PracticeSessionOptions) {
   return {
     state: readonly(state) as Readonly<Ref<PracticeState>>,
     active,
+    busy,
     result,
+    last: readonly(last) as Readonly<Ref<PassResult | null>>,
+    notes,
+    bars,
+    part,
+    otherHand,
+    loop,
+    ladder,
+    listen,
     announcement: readonly(announcement),
     error: readonly(error),
     stepIndex: readonly(stepIndex),
@@ -305,3 +456,16 @@ export function usePracticeSession(options: PracticeSessionOptions) {
 }
 
 export type PracticeSession = ReturnType<typeof usePracticeSession>
+
+const SESSION_KEY: InjectionKey<PracticeSession> = Symbol('practice-session')
+
+/** The practice page hands its session to the controls and tools below it. */
+export function providePracticeSession(session: PracticeSession): void {
+  provide(SESSION_KEY, session)
+}
+
+export function injectPracticeSession(): PracticeSession {
+  const session = inject(SESSION_KEY)
+  if (!session) throw new Error('The practice controls need a practice session from the page around them')
+  return session
+}

@@ -93,3 +93,13 @@ export function audioTimeToPerformanceMs(t: number): number {
   const latency = (ctx.baseLatency ?? 0) + (ctx.outputLatency ?? 0)
   return performance.now() + (t - ctx.currentTime + latency) * 1000
 }
+
+/** The audio-clock time (s) at which a sound is heard at `performance.now()` time `ms`: the inverse of the above. */
+export function performanceMsToAudioTime(ms: number): number {
+  const ctx = rawContext
+  if (!ctx) return 0
+  const stamp = typeof ctx.getOutputTimestamp === 'function' ? ctx.getOutputTimestamp() : undefined
+  if (stamp?.contextTime && stamp.performanceTime) return stamp.contextTime + (ms - stamp.performanceTime) / 1000
+  const latency = (ctx.baseLatency ?? 0) + (ctx.outputLatency ?? 0)
+  return ctx.currentTime + (ms - performance.now()) / 1000 - latency
+}

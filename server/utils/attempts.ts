@@ -1,7 +1,8 @@
 import type { Knex } from 'knex'
 import { z } from 'zod'
 import type { User } from '#auth-utils'
-import type { AttemptInput } from '#shared/types/attempt'
+import type { AttemptInput, AttemptPart } from '#shared/types/attempt'
+import { beatsPerBar, drillPart } from '#shared/utils/part'
 import { trustedEvents } from '#shared/utils/timeline'
 import { ENGINE_VERSION, gradeAttempt, type GradeResult } from '#shared/engine'
 
@@ -25,6 +26,8 @@ export interface AttemptSummary {
 }
 
 export interface AttemptDetail extends AttemptSummary {
+  /** The bars and hand played, when not the whole drill; the result indexes that part's notes. */
+  part: AttemptPart | null
   deviceName: string | null
   events: AttemptInput['events']
   pedal: NonNullable<AttemptInput['pedal']>
@@ -66,6 +69,7 @@ export async function loadAttempt(db: Knex, id: string): Promise<AttemptDetail |
   return {
     ...toAttemptSummary(row),
     deviceName: row.device_name ?? null,
+    part: row.part_from_bar == null ? null : { fromBar: Number(row.part_from_bar), toBar: Number(row.part_to_bar), hand: row.part_hand ?? null },
     events: parseJson(row.events),
     pedal: row.pedal ? parseJson(row.pedal) : [],
     result: parseJson(row.result),
@@ -97,7 +101,9 @@ export async function saveAttempt(db: Knex, student: User, input: AttemptInput):
   }
 
   const events = trustedEvents(input.events, input.inputDevice)
-  const result = gradeAttempt({ hand: drill.hand, tempoBpm: drill.tempoBpm, notes: drill.notes }, events, { targetBpm })
+  const part = drillPart({ hand: drill.hand, tempoBpm: drill.tempoBpm, notes: drill.notes }, input.part, beatsPerBar(drill.meter))
+  if (!part) throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'part: These bars hold no notes for that hand' })
+  const result = gradeAttempt(part.music, events, { targetBpm })
   try {
     await db('attempts').insert({
       id: input.id,
@@ -111,6 +117,9 @@ export async function saveAttempt(db: Knex, student: User, input: AttemptInput):
       device_name: input.deviceName ?? null,
       events: JSON.stringify(events),
       pedal: input.pedal ? JSON.stringify(input.pedal) : null,
+      part_from_bar: input.part?.fromBar ?? null,
+      part_to_bar: input.part?.toBar ?? null,
+      part_hand: input.part?.hand ?? null,
       score: Math.round(result.score),
       result: JSON.stringify(result),
       engine_version: ENGINE_VERSION,

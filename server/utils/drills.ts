@@ -82,9 +82,11 @@ export function toDrillDetail(row: DrillRow): DrillDetail {
 }
 
 /** The notes a drill had at `version`, for grading an attempt against what the student actually saw. */
-export async function drillVersion(db: Knex, drillId: number, version: number): Promise<{ hand: DrillRow['hand'], tempoBpm: number, notes: DrillNote[] } | undefined> {
-  const row = await db('drill_versions').where({ drill_id: drillId, version }).first()
-  return row && { hand: row.hand, tempoBpm: row.tempo_bpm, notes: parseJson<DrillNote[]>(row.notes) }
+export async function drillVersion(db: Knex, drillId: number, version: number): Promise<{ hand: DrillRow['hand'], tempoBpm: number, meter: string, notes: DrillNote[] } | undefined> {
+  // The metre is the drill's (versions keep the notes); a part's bars are counted in it.
+  const row = await db('drill_versions as v').join('drills as d', 'd.id', 'v.drill_id')
+    .where({ 'v.drill_id': drillId, 'v.version': version }).first('v.hand', 'v.tempo_bpm', 'v.notes', 'd.meter')
+  return row && { hand: row.hand, tempoBpm: row.tempo_bpm, meter: row.meter, notes: parseJson<DrillNote[]>(row.notes) }
 }
 
 const SUMMARY_COLUMNS = ['id', 'owner_id', 'title', 'description', 'kind', 'hand', 'key_signature', 'meter', 'tempo_bpm', 'source', 'version', 'is_public', 'level', 'tags', 'archived_at', 'copied_from_id', 'created_at', 'updated_at']

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { Hand } from './drill'
 import { TEMPO_LIMITS } from '../utils/tempo'
 import { INT_UNSIGNED_MAX, RowId, StoredTimestamp } from './limits'
 
@@ -21,6 +22,17 @@ export type PedalEvent = z.infer<typeof PedalEvent>
 export const InputDevice = z.enum(['midi', 'screen', 'computer-keys'])
 export type InputDevice = z.infer<typeof InputDevice>
 
+/**
+ * The part of a drill an attempt played, when not the whole: whole bars (1-based, inclusive) and
+ * optionally one hand of a both-hands drill. The attempt is graded against those notes only.
+ */
+export const AttemptPart = z.object({
+  fromBar: z.number().int().min(1).max(10_000),
+  toBar: z.number().int().min(1).max(10_000),
+  hand: Hand.nullable().default(null),
+}).refine(p => p.toBar >= p.fromBar, { message: 'must not be before fromBar', path: ['toBar'] })
+export type AttemptPart = z.infer<typeof AttemptPart>
+
 /** What the browser sends to save an attempt; the server recomputes every grade from `events`. */
 export const AttemptInput = z.object({
   /** Chosen by the client so that sending the same attempt twice stores it once. */
@@ -34,5 +46,6 @@ export const AttemptInput = z.object({
   deviceName: z.string().trim().max(200).optional(),
   events: z.array(PlayedEvent).max(20_000),
   pedal: z.array(PedalEvent).max(5_000).optional(),
+  part: AttemptPart.nullable().optional(),
 })
 export type AttemptInput = z.infer<typeof AttemptInput>

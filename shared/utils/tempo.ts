@@ -12,3 +12,26 @@ export function clampTempo(bpm: number, targetBpm: number | null = null): number
   // Rounded before the ceiling is applied, so that a fractional target is never rounded past.
   return Math.min(ceiling, Math.max(TEMPO_LIMITS.min, Math.round(bpm)))
 }
+
+/**
+ * A slow-to-target ladder: start at a share of the target, and after each pass that scores at least
+ * `passScore`, go up by `stepBpm`; never above the target (the teacher's ceiling).
+ */
+export interface TempoLadder {
+  /** 0.3–1: the share of the target to start from. */
+  startShare: number
+  stepBpm: number
+  /** 0–100: the score a pass needs for the next rung. */
+  passScore: number
+}
+
+export const DEFAULT_LADDER: TempoLadder = { startShare: 0.7, stepBpm: 4, passScore: 85 }
+
+export function ladderStartBpm(targetBpm: number, ladder: TempoLadder): number {
+  return clampTempo(targetBpm * Math.min(1, Math.max(0.3, ladder.startShare)), targetBpm)
+}
+
+/** The tempo for the next pass after one played at `currentBpm` that scored `score`. */
+export function ladderNextBpm(currentBpm: number, score: number, targetBpm: number, ladder: TempoLadder): number {
+  return score >= ladder.passScore ? clampTempo(currentBpm + Math.max(1, ladder.stepBpm), targetBpm) : clampTempo(currentBpm, targetBpm)
+}

@@ -56,6 +56,35 @@ describe('POST /api/attempts', () => {
     expect(res.body.message).toMatch(message)
   })
 
+  it('grades an attempt of some bars against those bars only, and keeps the part with it', async () => {
+    // 4/4 in quavers: bar 2 holds the notes from beat 4, played here as if they began the drill.
+    const bar2 = drill.drill.notes.filter(n => n.beat >= 4).map(n => ({ ...n, beat: n.beat - 4 }))
+    const body = { ...attemptBody(), events: play(bar2, 72), part: { fromBar: 2, toBar: 2, hand: 'right' } }
+    const res = await noor.post<AttemptReply & { attempt: { part: unknown, result: { accuracy: { total: number } } } }>('/api/attempts', body)
+    expect(res.status).toBe(201)
+    expect(res.body.attempt.result.accuracy).toMatchObject({ correct: bar2.length, total: bar2.length, missed: 0 })
+    expect(res.body.attempt.part).toEqual({ fromBar: 2, toBar: 2, hand: 'right' })
+    expect((await noor.get<{ attempt: { part: unknown } }>(`/api/attempts/${body.id}`)).body.attempt.part).toEqual({ fromBar: 2, toBar: 2, hand: 'right' })
+  })
+
+  it('drops the velocities of an input that has none and grades without touch', async () => {
+    const body = { ...attemptBody(), inputDevice: 'computer-keys' }
+    const res = await noor.post<{ attempt: { events: PlayedEvent[], result: { scoreParts: { loudness: { weight: number } } } } }>('/api/attempts', body)
+    expect(res.status).toBe(201)
+    expect(res.body.attempt.events.filter(e => e.velocity !== undefined)).toEqual([])
+    expect(res.body.attempt.result.scoreParts.loudness.weight).toBe(0)
+  })
+
+  it.each([
+    ['bars in the wrong order', { part: { fromBar: 2, toBar: 1, hand: null } }, /^part\.toBar:/],
+    ['bars past the end', { part: { fromBar: 3, toBar: 4, hand: null } }, /^part:/],
+    ['an unknown hand', { part: { fromBar: 1, toBar: 1, hand: 'third' } }, /^part\.hand:/],
+  ])('rejects a part with %s', async (_, change, message) => {
+    const res = await noor.post('/api/attempts', { ...attemptBody(), ...change })
+    expect(res.status).toBe(400)
+    expect(res.body.message).toMatch(message)
+  })
+
   it('refuses a body over 2 MB with 413 before reading it', async () => {
     const res = await noor.request('POST', '/api/attempts', undefined, JSON.stringify({ ...attemptBody(), deviceName: 'x'.repeat(2_200_000) }))
     expect(res.status).toBe(413)

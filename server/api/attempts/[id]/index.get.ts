@@ -17,6 +17,6 @@ export default defineEventHandler(async (event) => {
   return {
     attempt,
     student: { id: attempt.studentId, name: String(student?.name ?? '') },
-    drill: { id: attempt.drillId, title: String(drill?.title ?? ''), version: attempt.drillVersion, hand: version?.hand, tempoBpm: version?.tempoBpm, notes: version?.notes ?? [] },
+    drill: { id: attempt.drillId, title: String(drill?.title ?? ''), version: attempt.drillVersion, hand: version?.hand, tempoBpm: version?.tempoBpm, meter: String(drill?.meter ?? '4/4'), notes: version?.notes ?? [] },
   }
 })

@@ -1,0 +1,126 @@
+// Every page as a teacher and as a student, in light and dark: axe-core's checks (WCAG 2.2 AA
+// contrast among them) with no serious or critical violation; and the layouts that must fit.
+import { createRequire } from 'node:module'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { openBrowser, signInAs } from '../support/browser'
+import type { BrowserSession } from '../support/browser'
+import { closeTestDb, testDb } from '../support/server'
+
+const AXE_PATH = createRequire(import.meta.url).resolve('axe-core/axe.min.js')
+
+interface AxeViolation { id: string, impact: string | null, help: string, nodes: { target: string[], failureSummary?: string }[] }
+
+let teacher: BrowserSession
+let student: BrowserSession
+let anonymous: BrowserSession
+let paths: { classId: number, attemptId: string, drillId: number }
+
+beforeAll(async () => {
+  const db = testDb()
+  const noor = await db('users').where({ email: 'student@evenhand.test' }).first('id')
+  const attempt = await db('attempts').where({ student_id: noor.id }).orderBy('created_at', 'desc').first('id', 'drill_id')
+  const klass = await db('classes').where({ name: 'Tuesday Starters' }).first('id')
+  paths = { classId: Number(klass.id), attemptId: String(attempt.id), drillId: Number(attempt.drill_id) }
+  ;[teacher, student, anonymous] = await Promise.all([openBrowser(), openBrowser(), openBrowser()])
+  await signInAs(teacher.page, 'teacher@evenhand.test')
+  await teacher.page.waitForURL(/\/teacher$/)
+  await signInAs(student.page, 'student@evenhand.test')
+  await student.page.waitForURL(/\/student$/)
+})
+afterAll(async () => {
+  await Promise.all([teacher, student, anonymous].map(b => b?.close()))
+  await closeTestDb()
+})
+
+async function violations(page: Page): Promise<AxeViolation[]> {
+  await page.addScriptTag({ path: AXE_PATH })
+  const found = await page.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run: (ctx: Document, o: object) => Promise<{ violations: AxeViolation[] }> } }).axe
+    return (await axe.run(document, { resultTypes: ['violations'] })).violations
+  })
+  return found.filter(v => v.impact === 'serious' || v.impact === 'critical')
+}
+
+function describeViolations(found: AxeViolation[]): string[] {
+  return found.flatMap(v => v.nodes.slice(0, 3).map(n => `${v.id}: ${n.target.join(' ')} — ${n.failureSummary?.split('\n')[1]?.trim() ?? v.help}`))
+}
+
+describe('every page passes axe-core in light and dark', () => {
+  const pagesOf = (): [string, () => BrowserSession, string][] => [
+    ['sign-in', () => anonymous, '/login'],
+    ['sign-up', () => anonymous, '/signup'],
+    ['a missing page', () => anonymous, '/no-such-page'],
+    ['teacher home', () => teacher, '/teacher'],
+    ['class progress', () => teacher, `/teacher/classes/${paths.classId}`],
+    ['attempt, as the teacher', () => teacher, `/attempts/${paths.attemptId}`],
+    ['practice, as the teacher', () => teacher, `/practice/${paths.drillId}`],
+    ['settings, as the teacher', () => teacher, '/settings'],
+    ['student home', () => student, '/student'],
+    ['attempt, as the student', () => student, `/attempts/${paths.attemptId}`],
+    ['practice, as the student', () => student, `/practice/${paths.drillId}`],
+    ['settings, as the student', () => student, '/settings'],
+  ]
+
+  for (const scheme of ['light', 'dark'] as const) {
+    it(`has no serious or critical violation on any page, ${scheme}`, async () => {
+      const failures: string[] = []
+      const checked: string[] = []
+      for (const [name, who, path] of pagesOf()) {
+        const { page } = who()
+        await page.emulateMedia({ colorScheme: scheme })
+        await page.goto(path, { waitUntil: 'networkidle' })
+        // The report's disclosure open too, so what it hides is checked as well.
+        await page.locator('details').evaluateAll(all => all.forEach(d => d.setAttribute('open', '')))
+        checked.push(name)
+        failures.push(...describeViolations(await violations(page)).map(f => `${name}: ${f}`))
+      }
+      expect(checked).toHaveLength(12)
+      expect(failures).toEqual([])
+    })
+  }
+})
+
+describe('layouts that fit', () => {
+  it('keeps one long unbroken word in a comment inside the attempt page', async () => {
+    const { page } = teacher
+    await page.setViewportSize({ width: 1280, height: 800 })
+    await page.goto(`/attempts/${paths.attemptId}`)
+    const word = 'a'.repeat(4000)
+    const status = await page.evaluate(async ([id, body]) => (await fetch(`/api/attempts/${id}/comments`, {
+      method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ body }),
+    })).status, [paths.attemptId, word] as const)
+    expect(status).toBeLessThan(300)
+    await page.reload()
+    await page.getByText(word.slice(0, 50)).first().waitFor()
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(1280)
+  })
+
+  it('shows the drill, the keyboard, the start and the status in one laptop screen without scrolling', async () => {
+    const { page } = student
+    await page.setViewportSize({ width: 1280, height: 800 })
+    await page.goto(`/practice/${paths.drillId}`)
+    for (const id of ['note-strip', 'keyboard', 'start', 'phase']) {
+      const box = (await page.getByTestId(id).boundingBox())!
+      expect(box.y + box.height, id).toBeLessThanOrEqual(800)
+    }
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(1280)
+  })
+
+  it('keeps the navigation on one row and the keyboard on screen on a phone held upright, and says to turn it', async () => {
+    const { page } = student
+    await page.setViewportSize({ width: 390, height: 844 })
+    await page.goto(`/practice/${paths.drillId}`)
+    const nav = (await page.getByRole('navigation', { name: 'Main' }).boundingBox())!
+    expect(nav.height).toBeLessThan(70)
+    const keys = (await page.getByTestId('keyboard').boundingBox())!
+    expect(keys.y + keys.height).toBeLessThanOrEqual(844)
+    expect(keys.x + keys.width).toBeLessThanOrEqual(390)
+    await page.getByTestId('turn-hint').waitFor()
+    // Turned sideways, the keyboard takes the width and the hint goes.
+    await page.setViewportSize({ width: 844, height: 390 })
+    await expect.poll(() => page.getByTestId('turn-hint').count()).toBe(0)
+    expect((await page.getByTestId('keyboard').boundingBox())!.width).toBeGreaterThan(500)
+    await page.setViewportSize({ width: 1280, height: 800 })
+  })
+})
