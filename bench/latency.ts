@@ -99,6 +99,7 @@ const measure = (page: import('playwright-core').Page, plan: Press[]): Promise<S
   page.evaluate<Sample[]>(`window.__measureHighlight(${JSON.stringify(plan)})`)
 
 const row = await testDb()('drills').where({ title: 'C major scale, right hand' }).first('id', 'notes')
+const both = await testDb()('drills').where({ title: 'D major scale, hands together' }).first('id', 'notes')
 await closeTestDb()
 const scale = (typeof row.notes === 'string' ? JSON.parse(row.notes) : row.notes as DrillNote[]).map((n: DrillNote) => Note.midi(n.pitch)!)
 const browser = await openStudentWithFakeMidi()
@@ -136,6 +137,24 @@ try {
     await page.getByTestId('start').filter({ hasText: 'Play again' }).waitFor({ timeout: 15_000 })
   }
   report(`practice page, ${recorded.length} fake MIDI notes in ${ATTEMPTS} recorded attempts, legato, about 8 a second`, recorded)
+
+  // The practice tools running: a both-hands drill looped right hand alone, with the app sounding the
+  // left hand at tempo, so every pass is graded and saved while the next one plays.
+  const bothNotes: DrillNote[] = typeof both.notes === 'string' ? JSON.parse(both.notes) : both.notes
+  const right = bothNotes.filter(n => n.hand === 'right').map(n => Note.midi(n.pitch)!)
+  await page.goto(`/practice/${both.id}`)
+  await page.locator('#play-with').selectOption({ label: `${FAKE_MIDI_INPUT_NAME} (MIDI)` })
+  await page.getByTestId('practice-tools').locator('summary').click()
+  await page.locator('#hand').selectOption('right')
+  await page.getByTestId('other-hand').check()
+  await page.getByTestId('loop').check()
+  await page.evaluate(MEASURE)
+  await page.getByTestId('start').click({ timeout: 30_000 })
+  await page.getByTestId('phase').filter({ hasText: 'Playing' }).waitFor({ timeout: 15_000 })
+  const looped = await measure(page, presses(right, NOTES / 2, 110, 130))
+  const passes = await page.getByRole('heading', { name: /^Pass \d+$/ }).textContent().catch(() => 'none')
+  await page.getByRole('button', { name: 'Stop, don\'t keep' }).click()
+  report(`practice page, ${looped.length} fake MIDI notes, right hand alone in a loop with the left hand sounded (last: ${passes})`, looped)
   console.log(`practice page JavaScript: ${pageScripts.files} files, ${(pageScripts.gzipBytes / 1024).toFixed(1)} KiB gzip`)
 
   // The control: a bare page whose only work is to mark a key pressed, timed the same way. What it

@@ -59,12 +59,13 @@ describe('POST /api/attempts', () => {
   it('grades an attempt of some bars against those bars only, and keeps the part with it', async () => {
     // 4/4 in quavers: bar 2 holds the notes from beat 4, played here as if they began the drill.
     const bar2 = drill.drill.notes.filter(n => n.beat >= 4).map(n => ({ ...n, beat: n.beat - 4 }))
-    const body = { ...attemptBody(), events: play(bar2, 72), part: { fromBar: 2, toBar: 2, hand: 'right' } }
+    const id = randomUUID()
+    const body = { ...attemptBody(id), events: play(bar2, 72), part: { fromBar: 2, toBar: 2, hand: 'right' } }
     const res = await noor.post<AttemptReply & { attempt: { part: unknown, result: { accuracy: { total: number } } } }>('/api/attempts', body)
     expect(res.status).toBe(201)
     expect(res.body.attempt.result.accuracy).toMatchObject({ correct: bar2.length, total: bar2.length, missed: 0 })
     expect(res.body.attempt.part).toEqual({ fromBar: 2, toBar: 2, hand: 'right' })
-    expect((await noor.get<{ attempt: { part: unknown } }>(`/api/attempts/${body.id}`)).body.attempt.part).toEqual({ fromBar: 2, toBar: 2, hand: 'right' })
+    expect((await noor.get<{ attempt: { part: unknown } }>(`/api/attempts/${id}`)).body.attempt.part).toEqual({ fromBar: 2, toBar: 2, hand: 'right' })
   })
 
   it('drops the velocities of an input that has none and grades without touch', async () => {
