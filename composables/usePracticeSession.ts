@@ -5,7 +5,7 @@
 //   session.last – the last pass's grade and its saving; a loop keeps it on screen while the next pass plays
 //   session.start(), session.finish(), session.stop(), session.listen(); press/release for the on-screen keys
 //   session.part (bars, hand), otherHand, loop, ladder: the practice tools; every pass is its own attempt
-import { gradeAttempt, midiFromName, type GradeResult } from '#shared/engine'
+import { gradeAttempt, isBlackKey, midiFromName, type GradeResult } from '#shared/engine'
 import type { AttemptPart, InputDevice } from '#shared/types/attempt'
 import type { DrillMusic, DrillNote } from '#shared/types/drill'
 import type { LiveNoteEvent, LivePedalEvent } from '#shared/types/live'
@@ -66,10 +66,15 @@ export function keyboardRange(notes: readonly number[]): { low: number, high: nu
   return { low, high: Math.max(high, low + 12) }
 }
 
-/** Just the notes' span and a key either side, for a narrow screen held upright. */
+/** Just the notes' span and a white key either side, for a narrow screen held upright. */
 export function tightRange(notes: readonly number[]): { low: number, high: number } {
   const all = notes.length ? notes : [60]
-  return { low: Math.max(21, Math.min(...all) - 1), high: Math.min(108, Math.max(...all) + 1) }
+  let low = Math.max(21, Math.min(...all) - 1)
+  let high = Math.min(108, Math.max(...all) + 1)
+  // A keyboard drawn from or to a black key would cut that key in half.
+  while (low > 21 && isBlackKey(low)) low--
+  while (high < 108 && isBlackKey(high)) high++
+  return { low, high }
 }
 
 /** Notes that start together (a chord, or both hands) are one step to play, in order of their beat. */

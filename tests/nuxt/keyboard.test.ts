@@ -67,9 +67,9 @@ describe('KeyboardView', () => {
       props: { low: 60, high: 72, fingers: { 60: 1, 62: 2 }, inferred: [{ midi: 62, finger: 3 }] },
     })
     expect(key(w, 60).text()).toContain('1')
-    expect(key(w, 60).attributes('aria-label')).toBe('C 4, finger 1')
+    expect(key(w, 60).find('.sr-only').text()).toBe('C 4, finger 1')
     expect(key(w, 62).findAll('.finger-badge').map(b => b.text())).toEqual(['2', '3'])
-    expect(key(w, 62).attributes('aria-label')).toBe('D 4, finger 2, played with 3')
+    expect(key(w, 62).find('.sr-only').text()).toBe('D 4, finger 2, played with 3')
     expect(key(w, 64).findAll('.finger-badge')).toHaveLength(0)
   })
 
@@ -78,7 +78,7 @@ describe('KeyboardView', () => {
     expect(key(w, 65).attributes('data-target')).toBeDefined()
     expect(key(w, 65).find('.target-mark').exists()).toBe(true)
     expect(key(w, 65).find('.position-mark').exists()).toBe(true)
-    expect(key(w, 65).attributes('aria-label')).toBe('F 4, next, new hand position')
+    expect(key(w, 65).find('.sr-only').text()).toBe('F 4, next, new hand position')
     expect(key(w, 64).attributes('data-target')).toBeUndefined()
   })
 
