@@ -50,7 +50,9 @@ describe('every page passes axe-core in light and dark', () => {
   const pagesOf = (): [string, () => BrowserSession, string][] => [
     ['sign-in', () => anonymous, '/login'],
     ['sign-up', () => anonymous, '/signup'],
-    ['a missing page', () => anonymous, '/no-such-page'],
+    ['forgotten password', () => anonymous, '/forgot-password'],
+    ['new password', () => anonymous, '/reset-password?token=x'],
+    ['a missing page', () => student, '/no-such-page'],
     ['teacher home', () => teacher, '/teacher'],
     ['class progress', () => teacher, `/teacher/classes/${paths.classId}`],
     ['attempt, as the teacher', () => teacher, `/attempts/${paths.attemptId}`],
@@ -75,7 +77,7 @@ describe('every page passes axe-core in light and dark', () => {
         checked.push(name)
         failures.push(...describeViolations(await violations(page)).map(f => `${name}: ${f}`))
       }
-      expect(checked).toHaveLength(12)
+      expect(checked).toHaveLength(14)
       expect(failures).toEqual([])
     })
   }

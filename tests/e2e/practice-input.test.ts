@@ -1,27 +1,18 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { DrillNote } from '../../shared/types/drill'
 import { openStudentWithFakeMidi } from '../support/browser'
 import type { BrowserSession } from '../support/browser'
 import { FAKE_MIDI_INPUT_NAME } from '../support/fake-midi'
-import { openDrill, PLAY_WITH_LABEL, playDrill } from '../support/practice'
-import type { PlayedOn } from '../support/practice'
+import { assignedDrill, openDrill, PLAY_WITH_LABEL, playDrill } from '../support/practice'
+import type { AssignedDrill, PlayedOn } from '../support/practice'
 import { closeTestDb, testDb } from '../support/server'
 
 let browser: BrowserSession
-let drill: { id: number, notes: DrillNote[], title: string }
-let assignmentId: number
-let targetBpm: number
+let drill: AssignedDrill
 let studentId: number
 
 beforeAll(async () => {
-  const db = testDb()
-  const row = await db('drills').where({ title: 'Five-finger pattern in C, right hand' }).first('id', 'notes', 'title')
-  drill = { id: Number(row.id), notes: typeof row.notes === 'string' ? JSON.parse(row.notes) : row.notes, title: row.title }
-  studentId = Number((await db('users').where({ email: 'student@evenhand.test' }).first('id')).id)
-  const item = await db('assignments as a').join('drill_set_items as i', 'i.drill_set_id', 'a.drill_set_id')
-    .join('classes as c', 'c.id', 'a.class_id').where('i.drill_id', drill.id).where('c.name', 'Tuesday Starters').first('a.id', 'i.target_tempo_bpm')
-  assignmentId = Number(item.id)
-  targetBpm = Number(item.target_tempo_bpm)
+  drill = await assignedDrill('Five-finger pattern in C, right hand', 'Tuesday Starters')
+  studentId = Number((await testDb()('users').where({ email: 'student@evenhand.test' }).first('id')).id)
   browser = await openStudentWithFakeMidi()
 })
 afterAll(async () => {
@@ -70,10 +61,10 @@ describe('choosing what to play with', () => {
 
   it('opens at the teacher’s target tempo and says the grade compares with it', async () => {
     const { page } = browser
-    await openDrill(page, drill, `?assignment=${assignmentId}`)
-    expect(Number(await page.locator('#tempo').inputValue())).toBe(targetBpm)
-    expect(await page.locator('#tempo').getAttribute('max')).toBe(String(targetBpm))
-    expect(await page.locator('#tempo-ceiling').textContent()).toContain(`Up to ${targetBpm} bpm, the tempo your teacher set`)
+    await openDrill(page, drill, `?assignment=${drill.assignmentId}`)
+    expect(Number(await page.locator('#tempo').inputValue())).toBe(drill.targetBpm)
+    expect(await page.locator('#tempo').getAttribute('max')).toBe(String(drill.targetBpm))
+    expect(await page.locator('#tempo-ceiling').textContent()).toContain(`Up to ${drill.targetBpm} bpm, the tempo your teacher set`)
   })
 })
 
@@ -90,7 +81,7 @@ describe('the input an attempt records', () => {
     ['midi', true],
   ])('stores an attempt played on %s as such, with touch graded only from MIDI', async (on, hasTouch) => {
     const { page } = browser
-    await playDrill(page, drill, `?assignment=${assignmentId}`, on)
+    await playDrill(page, drill, `?assignment=${drill.assignmentId}`, on)
     await page.getByTestId('save-state').filter({ hasText: 'saved' }).waitFor()
     const stored = await latest()
     expect(stored.input_device).toBe(on)

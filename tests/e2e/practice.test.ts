@@ -1,22 +1,17 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { DrillNote } from '../../shared/types/drill'
 import { openStudentWithFakeMidi } from '../support/browser'
 import type { BrowserSession } from '../support/browser'
-import { playDrill } from '../support/practice'
+import { assignedDrill, playDrill } from '../support/practice'
+import type { AssignedDrill } from '../support/practice'
 import { closeTestDb, testDb } from '../support/server'
 
 let browser: BrowserSession
-let drill: { id: number, notes: DrillNote[], tempo: number }
-let assignmentId: number
+let drill: AssignedDrill
 let studentId: number
 
 beforeAll(async () => {
-  const db = testDb()
-  const row = await db('drills').where({ title: 'Five-finger pattern in C, right hand' }).first('id', 'notes', 'tempo_bpm')
-  drill = { id: Number(row.id), notes: typeof row.notes === 'string' ? JSON.parse(row.notes) : row.notes, tempo: row.tempo_bpm }
-  studentId = Number((await db('users').where({ email: 'student@evenhand.test' }).first('id')).id)
-  assignmentId = Number((await db('assignments as a').join('drill_set_items as i', 'i.drill_set_id', 'a.drill_set_id')
-    .join('classes as c', 'c.id', 'a.class_id').where('i.drill_id', drill.id).where('c.name', 'Tuesday Starters').first('a.id')).id)
+  drill = await assignedDrill('Five-finger pattern in C, right hand', 'Tuesday Starters')
+  studentId = Number((await testDb()('users').where({ email: 'student@evenhand.test' }).first('id')).id)
   browser = await openStudentWithFakeMidi()
 })
 afterAll(async () => {
@@ -25,7 +20,7 @@ afterAll(async () => {
 })
 
 function openDrillAndPlay(): Promise<void> {
-  return playDrill(browser.page, drill, `?assignment=${assignmentId}`)
+  return playDrill(browser.page, drill, `?assignment=${drill.assignmentId}`)
 }
 
 async function latestAttempt(): Promise<{ id: string, score: number, events: unknown[] } | undefined> {
@@ -53,7 +48,7 @@ describe('practising an assigned drill on a MIDI keyboard', () => {
       const res = await fetch('/api/attempts', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) })
       return res.status
     }, {
-      id: attempt.id, drillId: drill.id, drillVersion: attempt.drill_version, assignmentId, startedAt: new Date(attempt.started_at).toISOString(),
+      id: attempt.id, drillId: drill.id, drillVersion: attempt.drill_version, assignmentId: drill.assignmentId, startedAt: new Date(attempt.started_at).toISOString(),
       tempoBpm: Number(attempt.tempo_bpm), inputDevice: attempt.input_device, events: stored!.events,
     })
     expect(status).toBe(200)

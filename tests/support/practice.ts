@@ -6,6 +6,18 @@ import type { Page } from 'playwright-core'
 import type { DrillNote } from '../../shared/types/drill'
 import { COMPUTER_KEY_MAP } from '../../composables/useComputerKeys'
 import { FAKE_MIDI_INPUT_NAME } from './fake-midi'
+import { testDb } from './server'
+
+export interface AssignedDrill { id: number, title: string, notes: DrillNote[], assignmentId: number, targetBpm: number }
+
+/** A demo drill by title, with its assignment to a class and the target tempo set there. */
+export async function assignedDrill(title: string, className: string): Promise<AssignedDrill> {
+  const db = testDb()
+  const row = await db('drills').where({ title }).first('id', 'notes', 'title')
+  const item = await db('assignments as a').join('drill_set_items as i', 'i.drill_set_id', 'a.drill_set_id')
+    .join('classes as c', 'c.id', 'a.class_id').where('i.drill_id', row.id).where('c.name', className).first('a.id', 'i.target_tempo_bpm')
+  return { id: Number(row.id), title: row.title, notes: typeof row.notes === 'string' ? JSON.parse(row.notes) : row.notes, assignmentId: Number(item.id), targetBpm: Number(item.target_tempo_bpm) }
+}
 
 export type PlayedOn = 'midi' | 'computer-keys' | 'screen'
 
