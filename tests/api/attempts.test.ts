@@ -1,8 +1,9 @@
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Client, closeTestDb, testDb } from '../support/server'
-import { attemptBody as attemptFor, scaleDrill } from '../support/attempts'
+import { attemptBody as attemptFor, play, scaleDrill } from '../support/attempts'
 import type { DrillReply } from '../support/attempts'
+import type { PlayedEvent } from '../../shared/types/attempt'
 
 afterAll(closeTestDb)
 
