@@ -396,8 +396,14 @@ export function usePracticeSession(options: PracticeSessionOptions) {
       else if (!loop.on) announcement.value = `${said} ${outcome.message}`
     })
     // Each pass of a loop is its own attempt: the next one starts while this one is saved.
-    if (loop.on) void start({ countIn: loop.countIn })
-    else await saving
+    if (loop.on) {
+      // The pass's result is said before the next pass's count-in, in one announcement.
+      void start({ countIn: loop.countIn })
+      announcement.value = `${said} ${announcement.value}`
+    }
+    else {
+      await saving
+    }
   }
 
   /** Stops without keeping the attempt (the student wants to start again). */
