@@ -17,14 +17,15 @@ interface AxeViolation { id: string, impact: string | null, help: string, nodes:
 let teacher: BrowserSession
 let student: BrowserSession
 let anonymous: BrowserSession
-let paths: { classId: number, attemptId: string, drillId: number }
+let paths: { classId: number, attemptId: string, drillId: number, setId: number }
 
 beforeAll(async () => {
   const db = testDb()
   const noor = await db('users').where({ email: 'student@evenhand.test' }).first('id')
   const attempt = await db('attempts').where({ student_id: noor.id }).orderBy('created_at', 'desc').first('id', 'drill_id')
   const klass = await db('classes').where({ name: 'Tuesday Starters' }).first('id')
-  paths = { classId: Number(klass.id), attemptId: String(attempt.id), drillId: Number(attempt.drill_id) }
+  const set = await db('drill_sets').orderBy('id').first('id')
+  paths = { classId: Number(klass.id), attemptId: String(attempt.id), drillId: Number(attempt.drill_id), setId: Number(set.id) }
   ;[teacher, student, anonymous] = await Promise.all([openBrowser(), openBrowser(), openBrowser()])
   await signInAs(teacher.page, 'teacher@evenhand.test')
   await teacher.page.waitForURL(/\/teacher$/)
@@ -57,9 +58,13 @@ describe('every page passes axe-core in light and dark', () => {
     ['sign-up', () => anonymous, '/signup'],
     ['forgotten password', () => anonymous, '/forgot-password'],
     ['new password', () => anonymous, '/reset-password?token=x'],
+    ['joining a class', () => anonymous, '/join'],
     ['a missing page', () => student, '/no-such-page'],
     ['teacher home', () => teacher, '/teacher'],
-    ['class progress', () => teacher, `/teacher/classes/${paths.classId}`],
+    ['classes', () => teacher, '/teacher/classes'],
+    ['a class', () => teacher, `/teacher/classes/${paths.classId}`],
+    ['drill sets', () => teacher, '/teacher/sets'],
+    ['a drill set', () => teacher, `/teacher/sets/${paths.setId}`],
     ['attempt, as the teacher', () => teacher, `/attempts/${paths.attemptId}`],
     ['practice, as the teacher', () => teacher, `/practice/${paths.drillId}`],
     ['settings, as the teacher', () => teacher, '/settings'],
@@ -82,7 +87,7 @@ describe('every page passes axe-core in light and dark', () => {
         checked.push(name)
         failures.push(...describeViolations(await violations(page)).map(f => `${name}: ${f}`))
       }
-      expect(checked).toHaveLength(14)
+      expect(checked).toHaveLength(18)
       expect(failures).toEqual([])
     })
   }
