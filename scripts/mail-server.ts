@@ -63,8 +63,14 @@ function close(then?: () => void): void {
   current.close(() => then?.())
 }
 
+// While the port is closed nothing else keeps the process alive, so this does until a stop signal.
+const keepAlive = setInterval(() => {}, 2 ** 30)
+const stop = (): void => close(() => {
+  clearInterval(keepAlive)
+  process.exit(0)
+})
 process.on('SIGUSR1', () => close(() => console.error('[mail-server] closed (outage)')))
 process.on('SIGUSR2', open)
-process.on('SIGTERM', () => close(() => process.exit(0)))
-process.on('SIGINT', () => close(() => process.exit(0)))
+process.on('SIGTERM', stop)
+process.on('SIGINT', stop)
 open()

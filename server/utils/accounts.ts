@@ -1,5 +1,8 @@
-// Account changes that go through an e-mailed link: password resets and e-mail changes.
+// Account changes: name, guardian, password, and those that go through an e-mailed link (password resets, e-mail changes).
+import { z } from 'zod'
 import type { Knex } from 'knex'
+import type { User } from '#auth-utils'
+import type { Account, Role } from '#shared/types/account'
 
 /** An absolute address in this app for an e-mailed link (runtimeConfig.appUrl, e.g. https://studio.example.org). */
 export function appLink(path: string, token?: string): string {
@@ -37,7 +40,7 @@ const RESET_MESSAGES = {
 }
 
 /** Sets a new password from a reset link; returns the account so the caller can sign it in. */
-export async function resetPassword(token: string, password: string): Promise<{ id: number, email: string, name: string, role: 'teacher' | 'student' | 'admin' }> {
+export async function resetPassword(token: string, password: string): Promise<{ id: number, email: string, name: string, role: Role }> {
   const passwordHash = await hashPassword(password)
   return useDb().transaction(async (trx: Knex.Transaction) => {
     const row = await redeemToken(trx, 'password-reset', token, RESET_MESSAGES)
@@ -47,4 +50,89 @@ export async function resetPassword(token: string, password: string): Promise<{ 
     await retireTokens(trx, Number(user.id), 'password-reset')
     return { id: Number(user.id), email: user.email, name: user.name, role: user.role }
   })
+}
+
+export const StudentParams = z.object({ id: z.coerce.number({ error: 'not a student id' }).int().positive().max(Number.MAX_SAFE_INTEGER) })
+
+/** The account as its owner sees it on the settings page. */
+export async function loadAccount(db: Knex, userId: number): Promise<Account> {
+  const row = await db('users').where({ id: userId }).first('id', 'name', 'email', 'role', 'guardian_email', 'guardian_summary_stopped_at')
+  if (!row) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'This account no longer exists' })
+  return {
+    id: Number(row.id),
+    name: row.name,
+    email: row.email,
+    role: row.role,
+    guardianEmail: row.guardian_email ?? null,
+    guardianSummaryStopped: Boolean(row.guardian_summary_stopped_at),
+  }
+}
+
+/** Sets a student's guardian address; a new address starts the weekly summary again, as its owner never stopped it. */
+export async function setGuardianEmail(db: Knex | Knex.Transaction, studentId: number, guardianEmail: string | null): Promise<void> {
+  const current = await db('users').where({ id: studentId }).first('guardian_email')
+  if (current && current.guardian_email === guardianEmail) return
+  await db('users').where({ id: studentId }).update({ guardian_email: guardianEmail, guardian_summary_stopped_at: null })
+}
+
+/** The password hash check shared by the account changes that need the current password. */
+export async function requireCurrentPassword(db: Knex, userId: number, password: string): Promise<void> {
+  const row = await db('users').where({ id: userId }).first('password_hash')
+  if (!row?.password_hash || !(await verifyPassword(row.password_hash, password))) {
+    throw createError({
+      statusCode: 400,
+      statusMessage: 'Invalid input',
+      message: 'currentPassword: This is not your current password',
+      data: { issues: [{ path: 'currentPassword', message: 'This is not your current password' }] },
+    })
+  }
+}
+
+function emailTaken(): Error {
+  return createError({ statusCode: 409, statusMessage: 'Conflict', message: 'email: Another account already uses this e-mail' })
+}
+
+/** Sends a confirmation link to the new address; the sign-in e-mail changes only when it is followed. */
+export async function requestEmailChange(userId: number, email: string): Promise<void> {
+  const db = useDb()
+  if (await db('users').where({ email }).whereNot({ id: userId }).first('id')) throw emailTaken()
+  await db.transaction(async (trx) => {
+    const user = await trx('users').where({ id: userId }).first('name')
+    await retireTokens(trx, userId, 'email-change')
+    const token = await issueToken(trx, { kind: 'email-change', userId, subject: email, ttlMs: DAY_MS })
+    await queueMail(trx, { to: email, template: 'email-change', data: { name: user.name, newEmail: email, link: appLink('/confirm-email', token) } })
+  })
+}
+
+const CONFIRM_MESSAGES = {
+  unknown: 'This confirmation link is not valid. Check that it was copied whole, or change the address again in Settings.',
+  expired: 'This confirmation link has expired (links work for 24 hours). Change the address again in Settings for a new one.',
+  used: 'This address has already been confirmed with this link.',
+}
+
+/** Follows an e-mail change link: the account's sign-in address becomes the new one. */
+export async function confirmEmailChange(token: string): Promise<{ id: number, email: string, name: string, role: Role }> {
+  return useDb().transaction(async (trx) => {
+    const row = await redeemToken(trx, 'email-change', token, CONFIRM_MESSAGES)
+    const email = row.subject ?? ''
+    const user = await trx('users').where({ id: row.userId ?? 0 }).first('id', 'name', 'role')
+    if (!user) throw createError({ statusCode: 404, statusMessage: 'Not found', message: CONFIRM_MESSAGES.unknown })
+    try {
+      await trx('users').where({ id: user.id }).update({ email })
+    }
+    catch (error) {
+      if ((error as { code?: string }).code === 'ER_DUP_ENTRY') throw emailTaken()
+      throw error
+    }
+    return { id: Number(user.id), email, name: user.name, role: user.role }
+  })
+}
+
+/** A teacher's own student (a member of one of their classes, or given an assignment by them); 404 otherwise. */
+export async function requireTaughtStudent(db: Knex, user: User, studentId: number): Promise<{ id: number, name: string, email: string }> {
+  const student = await db('users').where({ id: studentId, role: 'student' }).first('id', 'name', 'email')
+  if (!student || !(await mayReadStudent(db, user, studentId))) {
+    throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'Student not found' })
+  }
+  return { id: Number(student.id), name: student.name, email: student.email }
 }

@@ -31,3 +31,38 @@ export type ForgotInput = z.infer<typeof ForgotInput>
 
 export const ResetInput = z.object({ token: LinkToken, password: Password })
 export type ResetInput = z.infer<typeof ResetInput>
+
+export const PersonName = z.string().trim().min(1, { error: 'Enter a name' }).max(120, { error: 'A name is at most 120 characters' })
+
+const CurrentPassword = z.string().min(1, { error: 'Enter your current password' }).max(200, { error: 'Password must be at most 200 characters' })
+
+/** A guardian's address, or none: an empty field clears it. */
+export const GuardianEmail = z.preprocess(v => (v === '' ? null : v), Email.nullable())
+
+export const AccountUpdate = z.object({
+  name: PersonName.optional(),
+  guardianEmail: GuardianEmail.optional(),
+}).refine(v => v.name !== undefined || v.guardianEmail !== undefined, { error: 'Send a name or a guardian e-mail to change' })
+export type AccountUpdate = z.infer<typeof AccountUpdate>
+
+export const PasswordChange = z.object({ currentPassword: CurrentPassword, password: Password })
+export type PasswordChange = z.infer<typeof PasswordChange>
+
+export const EmailChange = z.object({ email: Email, currentPassword: CurrentPassword })
+export type EmailChange = z.infer<typeof EmailChange>
+
+export const TokenInput = z.object({ token: LinkToken })
+export type TokenInput = z.infer<typeof TokenInput>
+
+export const GuardianInput = z.object({ guardianEmail: GuardianEmail })
+export type GuardianInput = z.infer<typeof GuardianInput>
+
+export interface Account {
+  id: number
+  name: string
+  email: string
+  role: Role
+  /** Students only: who receives the weekly summary, and whether they stopped it. */
+  guardianEmail: string | null
+  guardianSummaryStopped: boolean
+}
