@@ -136,3 +136,24 @@ export async function requireTaughtStudent(db: Knex, user: User, studentId: numb
   }
   return { id: Number(student.id), name: student.name, email: student.email }
 }
+
+const UNSUBSCRIBE_UNKNOWN = 'This link is not valid. Check that it was copied whole from the weekly summary.'
+
+/**
+ * Follows a weekly summary's unsubscribe link: the summary stops for the address it was sent to.
+ * Following it again answers the same; a newer guardian address the student entered since keeps its summary.
+ */
+export async function stopGuardianSummary(token: string): Promise<{ name: string }> {
+  const db = useDb()
+  const row = await findToken(db, 'guardian-unsubscribe', token)
+  if (!row) throw createError({ statusCode: 404, statusMessage: 'Not found', message: UNSUBSCRIBE_UNKNOWN })
+  if (!row.usedAt && row.expiresAt.getTime() < Date.now()) {
+    throw createError({ statusCode: 410, statusMessage: 'Gone', message: 'This link has expired. The link in the newest weekly summary works.' })
+  }
+  const student = await db('users').where({ id: row.userId ?? 0 }).first('name')
+  if (!student) throw createError({ statusCode: 404, statusMessage: 'Not found', message: UNSUBSCRIBE_UNKNOWN })
+  const now = new Date()
+  await db('users').where({ id: row.userId ?? 0, guardian_email: row.subject }).whereNull('guardian_summary_stopped_at').update({ guardian_summary_stopped_at: now })
+  if (!row.usedAt) await db('one_time_tokens').where({ id: row.id }).update({ used_at: now })
+  return { name: student.name }
+}

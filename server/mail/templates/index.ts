@@ -4,6 +4,7 @@ import assignment from './assignment'
 import emailChange from './email-change'
 import invitation from './invitation'
 import passwordReset from './password-reset'
+import weeklySummary from './weekly-summary'
 import type { MailTemplate } from '../template'
 
 export const mailTemplates = {
@@ -11,6 +12,7 @@ export const mailTemplates = {
   'email-change': emailChange,
   'invitation': invitation,
   'assignment': assignment,
+  'weekly-summary': weeklySummary,
 }
 
 export type MailTemplateName = keyof typeof mailTemplates

@@ -1,0 +1,93 @@
+// The guardians' weekly summary, queued by `npm run mail:weekly` and read back from the local mail server.
+import { execFile } from 'node:child_process'
+import { join } from 'node:path'
+import { promisify } from 'node:util'
+import { afterAll, describe, expect, it } from 'vitest'
+import { baseUrl, Client, closeTestDb, testDb } from '../support/server'
+import { linkIn, waitForMail } from '../support/mail'
+
+afterAll(closeTestDb)
+
+const ROOT = join(import.meta.dirname, '../..')
+const DAY_MS = 86_400_000
+
+async function mailWeekly(week: string): Promise<{ weekStart: string, queued: number, alreadyQueued: number }> {
+  const { stdout } = await promisify(execFile)('node', ['--import', 'tsx', 'scripts/mail-weekly.ts', '--week', week], {
+    cwd: ROOT, env: { ...process.env, NUXT_APP_URL: baseUrl() },
+  })
+  return JSON.parse(stdout)
+}
+
+/** Monday 00:00 UTC of the last complete week, worked out here by hand from today's date. */
+function lastMonday(): Date {
+  const now = new Date()
+  const today = Date.UTC(now.getUTCFullYear(), now.getUTCMonth(), now.getUTCDate())
+  const daysSinceMonday = (now.getUTCDay() + 6) % 7
+  return new Date(today - (daysSinceMonday + 7) * DAY_MS)
+}
+
+describe('the weekly summary', () => {
+  it('tells a guardian the week\'s minutes, attempts, scores against goals and new comments, once', async () => {
+    const monday = lastMonday()
+    const week = monday.toISOString().slice(0, 10)
+    const ada = await testDb()('users').where({ email: 'ada@evenhand.test' }).first('id', 'guardian_email')
+    const guardian = `ada-guardian-${Date.now()}@example.org`
+    await testDb()('users').where({ id: ada.id }).update({ guardian_email: guardian, guardian_summary_stopped_at: null })
+
+    const attempts = await testDb()('attempts').where('student_id', ada.id)
+      .where('started_at', '>=', monday).where('started_at', '<', new Date(monday.getTime() + 7 * DAY_MS))
+      .select('id', 'started_at', 'events')
+    expect(attempts.length).toBeGreaterThan(0)
+    // Minutes per day from the raw events, first to last event of each attempt.
+    const perDay = new Map<number, { ms: number, n: number }>()
+    for (const a of attempts) {
+      const times = (JSON.parse(a.events) as { timeMs: number }[]).map(e => e.timeMs)
+      const day = Math.floor((new Date(a.started_at).getTime() - monday.getTime()) / DAY_MS)
+      const entry = perDay.get(day) ?? { ms: 0, n: 0 }
+      perDay.set(day, { ms: entry.ms + Math.max(...times) - Math.min(...times), n: entry.n + 1 })
+    }
+    const total = [...perDay.values()].reduce((sum, d) => sum + Math.round(d.ms / 60_000), 0)
+
+    const teacher = await testDb()('users').where({ email: 'teacher@evenhand.test' }).first('id')
+    await testDb()('comments').insert({ attempt_id: attempts[0]!.id, teacher_id: teacher.id, body: 'Keep the wrist level through the thumb passing.', created_at: new Date(monday.getTime() + 2 * DAY_MS) })
+    await testDb()('comments').insert({ attempt_id: attempts[0]!.id, teacher_id: teacher.id, body: 'An older remark, from before the week.', created_at: new Date(monday.getTime() - DAY_MS) })
+
+    const first = await mailWeekly(week)
+    expect(first.weekStart).toBe(week)
+    expect(first.queued).toBeGreaterThanOrEqual(1)
+    const [mail] = await waitForMail(guardian)
+    const text = mail!.parsed.text!
+    expect(mail!.parsed.subject).toMatch(/^Ada Lindqvist's piano practice, week of Monday/)
+    expect(text).toContain(`${attempts.length} attempt${attempts.length === 1 ? '' : 's'} at their drills`)
+    expect(text).toMatch(new RegExp(`practised for ${total} minutes? on ${perDay.size} days?`))
+    expect(text).toContain('Keep the wrist level through the thumb passing.')
+    expect(text).not.toContain('An older remark')
+    expect(text).toMatch(/best score \d+|not played this week/)
+    expect(mail!.parsed.html).toContain('<table')
+    expect(String(mail!.parsed.headers.get('list-unsubscribe'))).toContain('/unsubscribe?token=')
+
+    // The same week again queues nothing for Ada.
+    const again = await mailWeekly(week)
+    expect(again.queued).toBe(0)
+    expect(await testDb()('weekly_summaries').where({ student_id: ada.id, week_start: week }).count({ n: '*' })).toEqual([{ n: 1 }])
+
+    // The unsubscribe link works without signing in, twice over, and stops the next week's summary.
+    const link = linkIn(mail!, '/unsubscribe')
+    expect((await fetch(link)).status).toBe(200)
+    const stop = await new Client().post('/api/guardian/unsubscribe', { token: link.searchParams.get('token') })
+    expect(stop.status).toBe(200)
+    expect(stop.body.message).toContain('Ada Lindqvist')
+    expect((await new Client().post('/api/guardian/unsubscribe', { token: link.searchParams.get('token') })).status).toBe(200)
+    expect((await testDb()('users').where({ id: ada.id }).first('guardian_summary_stopped_at')).guardian_summary_stopped_at).not.toBeNull()
+    const next = new Date(monday.getTime() + 7 * DAY_MS).toISOString().slice(0, 10)
+    await mailWeekly(next)
+    expect(await testDb()('weekly_summaries').where({ student_id: ada.id, week_start: next }).first()).toBeUndefined()
+  })
+
+  it('answers 404 for an unknown unsubscribe link and 400 for a malformed one', async () => {
+    const unknown = await new Client().post('/api/guardian/unsubscribe', { token: 'z'.repeat(43) })
+    expect(unknown.status).toBe(404)
+    expect(unknown.body.message).toMatch(/not valid/)
+    expect((await new Client().post('/api/guardian/unsubscribe', { token: 'short' })).status).toBe(400)
+  })
+})
