@@ -88,7 +88,7 @@ export async function summariseWeek(db: Knex, student: { id: number, name: strin
   return {
     studentName: student.name,
     weekStart: isoDay(weekStart),
-    days: days.map(d => ({ ...d, minutes: Math.round(d.minutes) })),
+    days,
     targets,
     comments: comments.map(c => ({ teacherName: c.teacherName, drillTitle: c.drillTitle, body: c.body, date: isoDay(new Date(c.created_at)) })),
   }

@@ -6,6 +6,7 @@ export interface WeeklySummaryMail {
   studentName: string
   /** Monday of the week (YYYY-MM-DD). */
   weekStart: string
+  /** Minutes as measured, unrounded: the words round them. */
   days: { date: string, minutes: number, attempts: number }[]
   targets: { setTitle: string, drillTitle: string, dueOn: string | null, targetScore: number | null, bestScore: number | null }[]
   comments: { teacherName: string, drillTitle: string, body: string, date: string }[]
@@ -14,7 +15,12 @@ export interface WeeklySummaryMail {
 }
 
 const weekday = (iso: string): string => new Date(`${iso}T12:00:00Z`).toLocaleDateString('en-GB', { weekday: 'long', day: 'numeric', month: 'short', timeZone: 'UTC' })
-const minutes = (n: number): string => (n === 0 ? 'no practice' : n === 1 ? '1 minute' : `${n} minutes`)
+function minutes(n: number): string {
+  if (n <= 0) return 'no practice'
+  if (n < 1) return 'less than a minute'
+  const whole = Math.round(n)
+  return whole === 1 ? '1 minute' : `${whole} minutes`
+}
 const plural = (n: number, one: string): string => `${n} ${one}${n === 1 ? '' : 's'}`
 
 function opening(d: WeeklySummaryMail): string {
@@ -22,7 +28,7 @@ function opening(d: WeeklySummaryMail): string {
   const attempts = d.days.reduce((sum, day) => sum + day.attempts, 0)
   const activeDays = d.days.filter(day => day.attempts > 0).length
   if (!attempts) return `${d.studentName} did not practise with Evenhand in the week from ${longDate(d.weekStart)}.`
-  return `In the week from ${longDate(d.weekStart)}, ${d.studentName} practised for ${minutes(total)} on ${plural(activeDays, 'day')}, with ${plural(attempts, 'attempt')} at their drills.`
+  return `In the week from ${longDate(d.weekStart)}, ${d.studentName} played drills for ${minutes(total)} on ${plural(activeDays, 'day')}, with ${plural(attempts, 'attempt')} in all.`
 }
 
 function scoreLine(t: WeeklySummaryMail['targets'][number]): string {
