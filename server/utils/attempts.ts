@@ -32,7 +32,7 @@ export interface AttemptDetail extends AttemptSummary {
   events: AttemptInput['events']
   pedal: NonNullable<AttemptInput['pedal']>
   result: GradeResult
-  comments: { id: number, teacherId: number, teacherName: string, body: string, createdAt: string }[]
+  comments: { id: number, teacherId: number, teacherName: string, body: string, createdAt: string, readAt: string | null }[]
 }
 
 type AttemptRow = Record<string, unknown>
@@ -65,7 +65,7 @@ export async function loadAttempt(db: Knex, id: string): Promise<AttemptDetail |
   if (!row) return undefined
   const comments = await db('comments as c').join('users as u', 'u.id', 'c.teacher_id')
     .where('c.attempt_id', id).orderBy('c.created_at')
-    .select('c.id', 'c.teacher_id', 'u.name', 'c.body', 'c.created_at')
+    .select('c.id', 'c.teacher_id', 'u.name', 'c.body', 'c.created_at', 'c.read_at')
   return {
     ...toAttemptSummary(row),
     deviceName: row.device_name ?? null,
@@ -73,7 +73,7 @@ export async function loadAttempt(db: Knex, id: string): Promise<AttemptDetail |
     events: parseJson(row.events),
     pedal: row.pedal ? parseJson(row.pedal) : [],
     result: parseJson(row.result),
-    comments: comments.map(c => ({ id: Number(c.id), teacherId: Number(c.teacher_id), teacherName: c.name, body: c.body, createdAt: new Date(c.created_at).toISOString() })),
+    comments: comments.map(c => ({ id: Number(c.id), teacherId: Number(c.teacher_id), teacherName: c.name, body: c.body, createdAt: new Date(c.created_at).toISOString(), readAt: c.read_at ? new Date(c.read_at).toISOString() : null })),
   }
 }
 

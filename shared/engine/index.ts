@@ -18,3 +18,5 @@ export { checkFingering, type CheckInput, type CheckRule, type FingeringIssue } 
 export { positionStarts } from './positions'
 export { inferFingering, type InferResult, type PerformedNote } from './infer'
 export { ENGINE_VERSION, SCORE_FORMULA, gradeAttempt } from './grade'
+export { leastSquaresLine, mean, standardDeviation, type Line } from './stats'
+export { FINGER_NAMES, HABIT_TIMING_MS, HABIT_VELOCITY, fingerHabits, habitStatement, unplannedShifts, type FingerHabit, type HabitResult, type ShiftResult, type UnplannedShift } from './habits'

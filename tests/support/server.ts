@@ -64,6 +64,12 @@ export class Client {
     return this.request<T>('POST', path, undefined, form)
   }
 
+  /** A binary download (a MIDI file), with the session cookie. */
+  async bytes(path: string): Promise<Reply<Uint8Array>> {
+    const res = await fetch(baseUrl() + path, { headers: this.cookie ? { cookie: this.cookie } : {} })
+    return { status: res.status, body: new Uint8Array(await res.arrayBuffer()), headers: res.headers }
+  }
+
   async signIn(email: string, password = DEMO_PASSWORD): Promise<this> {
     const res = await this.post('/api/auth/login', { email, password })
     if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status}`)
