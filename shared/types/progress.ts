@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import type { FingerHabit } from '../engine'
 
 /** How far back a progress page or the habits look. */
 export const ProgressRange = z.enum(['2w', '3m', 'all'], { error: 'choose 2w, 3m or all' })
@@ -87,16 +88,6 @@ export interface HabitsView {
   student: { id: number, name: string }
   range: ProgressRange
   attempts: number
-  fingers: {
-    finger: number
-    attempts: number
-    timingMs: number | null
-    velocity: number | null
-    late: number
-    early: number
-    loud: number
-    soft: number
-    statement: string
-  }[]
+  fingers: (FingerHabit & { statement: string })[]
   shifts: { drillId: number, drillTitle: string, noteIndex: number, pitch: string | null, times: number, attempts: number }[]
 }
