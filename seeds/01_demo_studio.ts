@@ -3,7 +3,7 @@ import { randomUUID } from 'node:crypto'
 import type { Knex } from 'knex'
 import { ENGINE_VERSION, gradeAttempt } from '../shared/engine'
 import { hashPassword } from '../scripts/lib/password'
-import { assignments, classes, DEMO_PASSWORD, drills, drillSets, students, teacher } from './demo/studio'
+import { assignments, classes, dailyStudent, DEMO_PASSWORD, drills, drillSets, students, teacher } from './demo/studio'
 import { performDrill, randomSource } from './demo/performance'
 import { endOfDueDay } from '../shared/utils/dueDate'
 
@@ -65,14 +65,18 @@ export async function seed(knex: Knex): Promise<void> {
         for (const item of drillSets[a.set]!.items) {
           const drill = drills.find(d => d.slug === item.slug)!
           // A few weeks of practice, getting steadier and closer to the target tempo.
-          const sessions = 3 + Math.floor(random() * 6)
+          const daily = email === dailyStudent
+          const sessions = daily ? 21 : 3 + Math.floor(random() * 6)
           for (let k = 0; k < sessions; k++) {
             const progress = sessions === 1 ? 1 : k / (sessions - 1)
             const tempoBpm = Math.round(item.targetTempoBpm * (0.75 + 0.25 * progress))
             const skill = Math.min(0.97, student.skill + 0.25 * progress)
             const events = performDrill(drill.notes, { tempoBpm, skill, accentFinger: student.accent }, random)
             const result = gradeAttempt({ hand: drill.hand, tempoBpm: drill.tempoBpm, notes: drill.notes }, events, { targetBpm: item.targetTempoBpm })
-            const startedAt = new Date(now - (21 - 20 * progress) * DAY_MS - random() * 6 * 3_600_000)
+            // The daily student plays each drill once a day, the last time an hour or two ago.
+            const startedAt = daily
+              ? new Date(now - (20 - k) * DAY_MS - (1 + random()) * 3_600_000)
+              : new Date(now - (21 - 20 * progress) * DAY_MS - random() * 6 * 3_600_000)
             await trx('attempts').insert({
               id: randomUUID(), student_id: studentIds.get(email), drill_id: drillIds.get(item.slug), drill_version: 1,
               assignment_id: assignmentId, started_at: startedAt, created_at: startedAt, tempo_bpm: tempoBpm,

@@ -15,6 +15,12 @@ export const students = [
   { email: 'jonah@evenhand.test', name: 'Jonah Pell', guardian: 'pell.parents@evenhand.test', skill: 0.35, accent: 5 },
 ] as const
 
+/**
+ * The demo's story: Noor practises every day of the three weeks, so her progress pages show a
+ * timing spread that narrows week by week while her thumb stays louder than her other fingers.
+ */
+export const dailyStudent = 'student@evenhand.test'
+
 export const classes = [
   { name: 'Tuesday Starters', joinCode: 'TUE4KQ', members: ['student@evenhand.test', 'theo@evenhand.test', 'ada@evenhand.test'] },
   { name: 'Thursday Developing', joinCode: 'THU7RM', members: ['student@evenhand.test', 'samir@evenhand.test', 'lucia@evenhand.test', 'jonah@evenhand.test'] },
