@@ -1,18 +1,25 @@
 // The progress pages in chromium: the demo student's drill chart, an attempt played back with
 // its keys lighting in time, and the teacher reaching the same student's habits from the class table.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { afterAll, afterEach, beforeEach, describe, expect, it } from 'vitest'
 import { openBrowser, signInAs } from '../support/browser'
 import type { BrowserSession } from '../support/browser'
 import { closeTestDb, testDb } from '../support/server'
 
 let browser: BrowserSession
-beforeAll(async () => {
+beforeEach(async () => {
   browser = await openBrowser()
 })
-afterAll(async () => {
+afterEach(async () => {
   await browser?.close()
-  await closeTestDb()
 })
+afterAll(closeTestDb)
+
+async function asStudent(): Promise<Page> {
+  await signInAs(browser.page, 'student@evenhand.test')
+  await browser.page.waitForURL(/\/student$/)
+  return browser.page
+}
 
 async function noor(): Promise<number> {
   return Number((await testDb()('users').where({ email: 'student@evenhand.test' }).first('id')).id)
@@ -22,9 +29,7 @@ describe('progress in the browser', () => {
   it('shows the demo student one point per seeded attempt of a drill and a trend line', async () => {
     const id = await noor()
     const row = await testDb()('attempts').where('student_id', id).groupBy('drill_id').orderByRaw('COUNT(*) DESC').first('drill_id', testDb().raw('COUNT(*) AS n'))
-    const { page } = browser
-    await signInAs(page, 'student@evenhand.test')
-    await page.waitForURL(/\/student$/)
+    const page = await asStudent()
     await page.goto(`/student/drills/${row.drill_id}`)
     const score = page.getByRole('region', { name: 'Score' })
     await score.scrollIntoViewIfNeeded()
@@ -46,8 +51,8 @@ describe('progress in the browser', () => {
   it('plays an attempt back with each key lighting at its time', async () => {
     const id = await noor()
     const attempt = await testDb()('attempts').where('student_id', id).orderBy('started_at', 'desc').first('id', 'events')
-    const events: { note: number, on: boolean, timeMs: number }[] = JSON.parse(attempt.events)
-    const { page } = browser
+    const events: { note: number, on: boolean, timeMs: number }[] = typeof attempt.events === 'string' ? JSON.parse(attempt.events) : attempt.events
+    const page = await asStudent()
     await page.goto(`/attempts/${attempt.id}`)
     const playback = page.getByTestId('playback')
     await playback.scrollIntoViewIfNeeded()
@@ -70,23 +75,22 @@ describe('progress in the browser', () => {
     await expect.poll(() => page.evaluate(() => (window as unknown as { __lit: unknown[] }).__lit.length), { timeout: 20_000 }).toBeGreaterThanOrEqual(count)
     const startedAt = Number(await playback.getAttribute('data-started-at'))
     const lit: { midi: number, t: number }[] = await page.evaluate(() => (window as unknown as { __lit: { midi: number, t: number }[] }).__lit)
-    for (let k = 0; k < count; k++) {
-      expect(lit[k]!.midi).toBe(ons[k]!.note)
-      // At half speed a note due at t ms into the attempt lights 2t ms after the start; a frame or two of slack.
-      expect(Math.abs(lit[k]!.t - startedAt - 2 * (ons[k]!.timeMs - origin))).toBeLessThan(60)
-    }
+    // At half speed a note due t ms into the attempt lights 2t ms after the start. Each within 100 ms
+    // (a busy shared machine can hold one timer back), and typically within a frame or two.
+    const offsets = lit.slice(0, count).map((l, k) => Math.abs(l.t - startedAt - 2 * (ons[k]!.timeMs - origin)))
+    lit.slice(0, count).forEach((l, k) => expect(l.midi).toBe(ons[k]!.note))
+    for (const off of offsets) expect(off).toBeLessThan(100)
+    expect([...offsets].sort((x, y) => x - y)[Math.floor(count / 2)]).toBeLessThan(35)
     await playback.getByTestId('play-attempt').click()
     expect(await playback.getByTestId('download-midi').getAttribute('href')).toBe(`/api/attempts/${attempt.id}/export.mid`)
   })
 
   it('takes the teacher from the class table to the same student\'s habits', async () => {
     const { page } = browser
-    await page.getByRole('button', { name: 'Sign out' }).click()
-    await page.waitForURL(/\/login/)
     await signInAs(page, 'teacher@evenhand.test')
     await page.waitForURL(/\/teacher$/)
     await page.getByTestId('class-card').filter({ hasText: 'Tuesday Starters' }).getByRole('link', { name: 'See progress' }).click()
-    await page.getByTestId('progress-table').getByRole('link', { name: 'Noor Castellan' }).click()
+    await page.getByTestId('progress-table').getByRole('link', { name: 'Noor Castellan', exact: true }).click()
     await page.waitForURL(new RegExp(`/teacher/students/${await noor()}$`))
     const habits = page.getByTestId('habits')
     await expect.poll(() => habits.getByTestId('habit-statement').count()).toBe(5)
