@@ -26,7 +26,9 @@ export function describeFigure(f: FigureWords): string {
       : `The trend ${step > 0 ? 'rises' : 'falls'} ${fmt(Math.abs(step))} a week${better ? ', the right way' : ''}.`)
   }
   if (f.target != null) {
-    const reached = f.lowerIsBetter ? present.at(-1)! <= f.target : present.at(-1)! >= f.target
+    // Compared as shown, so "63 bpm" against a target of 63 reads as reached.
+    const shown = Number(present.at(-1)!.toFixed(f.digits ?? 0))
+    const reached = f.lowerIsBetter ? shown <= f.target : shown >= f.target
     parts.push(`Target ${fmt(f.target)}: ${reached ? 'reached' : 'not reached yet'}.`)
   }
   return parts.join(' ')
