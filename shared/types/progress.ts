@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import type { FingerHabit } from '../engine'
+import { RowId } from './limits'
 
 /** How far back a progress page or the habits look. */
 export const ProgressRange = z.enum(['2w', '3m', 'all'], { error: 'choose 2w, 3m or all' })
@@ -11,7 +12,7 @@ export const RANGE_DAYS: Record<ProgressRange, number | null> = { '2w': 14, '3m'
 const TzOffset = z.coerce.number().int({ error: 'minutes east of UTC, a whole number' }).min(-840).max(840).default(0)
 
 export const ProgressQuery = z.object({
-  drill: z.coerce.number({ error: 'a drill id' }).int().positive().max(2 ** 53).optional(),
+  drill: z.coerce.number({ error: 'a drill id' }).pipe(RowId).optional(),
   range: ProgressRange.default('all'),
   tz: TzOffset,
 })
@@ -20,7 +21,7 @@ export type ProgressQuery = z.infer<typeof ProgressQuery>
 export const HabitsQuery = z.object({ range: ProgressRange.default('3m') })
 export type HabitsQuery = z.infer<typeof HabitsQuery>
 
-export const StudentParams = z.object({ id: z.coerce.number({ error: 'a student id' }).int().positive().max(2 ** 53) })
+export const StudentParams = z.object({ id: z.coerce.number({ error: 'a student id' }).pipe(RowId) })
 
 /** One attempt on a progress chart; every figure read from the attempt's stored grade. */
 export interface ProgressPoint {

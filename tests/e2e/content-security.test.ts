@@ -52,6 +52,25 @@ const PAGES: Record<string, PageCase> = {
   'teacher/classes/[id]': { who: 'teacher', visit: goto(async () => `/teacher/classes/${await id(testDb()('classes').where({ name: 'Tuesday Starters' }).first('id'))}`) },
   'attempts/[id]': { who: 'teacher', visit: goto(async () => `/attempts/${await id(testDb()('attempts').orderBy('started_at', 'desc').first('id'))}`) },
   'student/index': { who: 'student', visit: goto(() => '/student') },
+  // Scrolled to the last chart, so chart.js's lazily loaded chunk and every canvas run under the policy.
+  'student/drills/[id]': {
+    who: 'student',
+    visit: async (page) => {
+      const drill = await testDb()('attempts as a').join('users as u', 'u.id', 'a.student_id').where('u.email', 'student@evenhand.test').first('a.drill_id as id')
+      await goto(() => `/student/drills/${drill.id}`)(page)
+      await page.getByRole('region', { name: 'Tempo reached' }).scrollIntoViewIfNeeded()
+      await page.getByRole('region', { name: 'Tempo reached' }).locator('canvas').waitFor()
+    },
+  },
+  'student/habits': { who: 'student', visit: goto(() => '/student/habits') },
+  'teacher/students/[id]/index': { who: 'teacher', visit: goto(async () => `/teacher/students/${await id(testDb()('users').where({ email: 'student@evenhand.test' }).first('id'))}`) },
+  'teacher/students/[id]/drills/[drillId]': {
+    who: 'teacher',
+    visit: goto(async () => {
+      const a = await testDb()('attempts as a').join('users as u', 'u.id', 'a.student_id').where('u.email', 'student@evenhand.test').first('a.student_id', 'a.drill_id')
+      return `/teacher/students/${a.student_id}/drills/${a.drill_id}`
+    }),
+  },
   'settings': { who: 'student', visit: goto(() => '/settings') },
   // Played through, so the samples, the metronome's worker and the save all run under the policy.
   'practice/[id]': {
