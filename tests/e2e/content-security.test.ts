@@ -46,6 +46,22 @@ const PAGES: Record<string, PageCase> = {
   'invitation': { who: 'anonymous', visit: goto(() => '/invitation?token=not-a-real-token-but-long-enough') },
   'join': { who: 'anonymous', visit: goto(() => '/join?code=TUE4KQ') },
   'teacher/index': { who: 'teacher', visit: goto(() => '/teacher') },
+  'confirm-email': { who: 'anonymous', visit: goto(() => '/confirm-email?token=not-a-real-token') },
+  'unsubscribe': { who: 'anonymous', visit: goto(() => '/unsubscribe?token=not-a-real-token') },
+  'dev/mail/index': { who: 'teacher', visit: goto(() => '/dev/mail') },
+  // The newest stored message when the run has sent any (the API tests do), else a missing one.
+  'dev/mail/[id]': {
+    who: 'teacher',
+    visit: async (page) => {
+      await goto(() => '/dev/mail')(page)
+      const first = page.locator('a[href^="/dev/mail/"]').first()
+      await goto(async () => (await first.count()) ? (await first.getAttribute('href'))! : '/dev/mail/none')(page)
+    },
+  },
+  'teacher/drills/index': { who: 'teacher', visit: goto(() => '/teacher/drills') },
+  // The staff is engraved here, so VexFlow and its music font load under the policy.
+  'teacher/drills/[id]': { who: 'teacher', visit: goto(async () => `/teacher/drills/${await id(testDb()('drills').where({ title: 'C major scale, right hand' }).first('id'))}`) },
+  'teacher/drills/new': { who: 'teacher', visit: goto(() => '/teacher/drills/new') },
   'teacher/classes/index': { who: 'teacher', visit: goto(() => '/teacher/classes') },
   'teacher/sets/index': { who: 'teacher', visit: goto(() => '/teacher/sets') },
   'teacher/sets/[id]': { who: 'teacher', visit: goto(async () => `/teacher/sets/${await id(testDb()('drill_sets').where({ title: 'First steps: five fingers and C' }).first('id'))}`) },
