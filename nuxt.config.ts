@@ -52,6 +52,22 @@ export default defineNuxtConfig({
       bodyBytes: 2 * 1024 * 1024,
       uploadBytes: 8 * 1024 * 1024,
       retryAfterSeconds: 5,
+      // Failed sign-ins per address and per account within the window; sign-ups per address per hour.
+      signInFailuresPerIp: 30,
+      signInFailuresPerAccount: 5,
+      signInWindowSeconds: 900,
+      signUpsPerIpPerHour: 20,
+      // A drill takes seconds to play: thirty a minute is far beyond any real student.
+      attemptsPerStudentPerMinute: 30,
+    },
+    sessions: {
+      // Signed out after two weeks unused, and after sixty days whatever happens.
+      idleSeconds: 14 * 24 * 3600,
+      absoluteSeconds: 60 * 24 * 3600,
+    },
+    session: {
+      // nuxt-auth-utils' cookie: lives as long as the longest session may.
+      maxAge: 60 * 24 * 3600,
     },
     public: {
       appName: 'Evenhand',

@@ -138,6 +138,7 @@ export async function acceptInvitation(db: Knex, input: InvitationAccept): Promi
         const message = strong.error.issues[0]!.message
         throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: `password: ${message}`, data: { issues: [{ path: 'password', message }] } })
       }
+      requireGoodPassword(input.password, invitation.email)
       const id = await insertUser(trx, { email: invitation.email, name: input.name, passwordHash: await hashPassword(input.password), role: 'student' })
       user = { id, email: invitation.email, name: input.name, role: 'student' }
     }

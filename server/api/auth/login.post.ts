@@ -1,15 +1,20 @@
 import { LoginInput } from '#shared/types/account'
 
 const WRONG = 'Wrong e-mail or password'
+const LIMITED = 'Too many failed sign-ins; wait a little and try again'
 
 export default defineEventHandler(async (event) => {
   const { email, password } = await validBody(event, LoginInput)
-  const row = await useDb()('users').where({ email }).first('id', 'email', 'name', 'role', 'password_hash')
-  // One message for an unknown e-mail and a wrong password, so sign-in does not reveal who has an account.
-  if (!row?.password_hash || !(await verifyPassword(row.password_hash, password))) {
+  const ip = clientIp(event)
+  await refuseWhenSpent(event, 'signInIp', ip, LIMITED)
+  await refuseWhenSpent(event, 'signInAccount', email, LIMITED)
+  const user = await checkPassword(email, password)
+  // One message for an unknown e-mail and a wrong password, and the same work for both, so sign-in does not reveal who has an account.
+  if (!user) {
+    await Promise.all([spendQuietly(event, 'signInIp', ip), spendQuietly(event, 'signInAccount', email)])
     throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: WRONG })
   }
-  const user = { id: Number(row.id), email: row.email, name: row.name, role: row.role }
-  await setUserSession(event, { user, loggedInAt: Date.now() })
+  await forget(event, 'signInAccount', email)
+  await startSession(event, user)
   return { user }
 })

@@ -4,6 +4,6 @@ import { InvitationAccept } from '#shared/types/classes'
 export default defineEventHandler(async (event) => {
   const input = await validBody(event, InvitationAccept)
   const { user, classId } = await acceptInvitation(useDb(), input)
-  await setUserSession(event, { user, loggedInAt: Date.now() })
+  await startSession(event, user)
   return { user, classId }
 })

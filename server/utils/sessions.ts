@@ -1,0 +1,61 @@
+// Server-side session records behind the sealed cookie: sign-out, "sign out everywhere", a password
+// change and an admin end sessions by deleting rows; a cookie whose row is gone, idle or expired is signed out.
+import { randomBytes } from 'node:crypto'
+import type { H3Event } from 'h3'
+import type { User } from '#auth-utils'
+
+/** A row's last use is written at most this often, so reading a session rarely costs a write. */
+const TOUCH_EVERY_MS = 60_000
+
+function lifetimes(event: H3Event): { idleMs: number, absoluteMs: number } {
+  const { sessions } = useRuntimeConfig(event)
+  return { idleMs: Number(sessions.idleSeconds) * 1000, absoluteMs: Number(sessions.absoluteSeconds) * 1000 }
+}
+
+/** h3 reads the session from the request's cookie header each time it is asked: the rest of this request must not find it. */
+function dropRequestCookie(event: H3Event, name: string): void {
+  const header = event.node.req.headers.cookie
+  if (!header) return
+  event.node.req.headers.cookie = header.split(';').filter(part => part.split('=')[0]!.trim() !== name).join(';')
+}
+
+/** Signs `user` in: a new session row and a cookie naming it. */
+export async function startSession(event: H3Event, user: User): Promise<void> {
+  const sid = randomBytes(32).toString('base64url')
+  await useDb()('sessions').insert({ id: sid, user_id: user.id, expires_at: new Date(Date.now() + lifetimes(event).absoluteMs) })
+  await replaceUserSession(event, { user, secure: { sid }, loggedInAt: Date.now() })
+}
+
+/** Signs this browser out: its row and its cookie. */
+export async function endSession(event: H3Event): Promise<void> {
+  const session = await getUserSession(event)
+  if (session.secure?.sid) await useDb()('sessions').where({ id: session.secure.sid }).delete()
+  await clearUserSession(event)
+}
+
+/** Ends every session of a user (sign out everywhere, a new password, an admin's decision). */
+export async function endSessionsOf(userId: number): Promise<number> {
+  return useDb()('sessions').where({ user_id: userId }).delete()
+}
+
+/**
+ * Checks the cookie's session against its row: gone, past its absolute lifetime or idle too long, the cookie is
+ * cleared and the request goes on signed out. Otherwise the row's last use is brought up to date.
+ */
+export async function checkSession(event: H3Event): Promise<void> {
+  const session = await getUserSession(event)
+  if (!session.user) return
+  const sid = session.secure?.sid
+  const db = useDb()
+  const row = sid ? await db('sessions').where({ id: sid }).first('user_id', 'last_seen_at', 'expires_at') : undefined
+  const now = Date.now()
+  const lastSeen = row ? new Date(row.last_seen_at).getTime() : 0
+  const alive = row && Number(row.user_id) === session.user.id && new Date(row.expires_at).getTime() > now && now - lastSeen < lifetimes(event).idleMs
+  if (!alive) {
+    if (row) await db('sessions').where({ id: sid }).delete()
+    await clearUserSession(event)
+    dropRequestCookie(event, String(useRuntimeConfig(event).session.name))
+    return
+  }
+  if (now - lastSeen > TOUCH_EVERY_MS) await db('sessions').where({ id: sid }).update({ last_seen_at: new Date(now) })
+}

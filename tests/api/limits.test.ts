@@ -1,0 +1,144 @@
+// Rate limits held in MariaDB's rate_limits table (shared by every app instance), equal work for known and
+// unknown e-mails at sign-in, the password rule, and attempts per student per minute.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { Client, closeTestDb, testDb } from '../support/server'
+import { LOOPBACK_ADDRESSES, makeAccount, TEST_PASSWORD } from '../support/accounts'
+import { attemptBody, scaleDrill } from '../support/attempts'
+
+afterAll(closeTestDb)
+
+/** Fills a limit's shared counter for this machine's addresses, as many requests from another instance would. */
+async function exhaust(prefix: string, keys: string[], seconds = 600): Promise<void> {
+  const rows = keys.map(key => ({ key: `${prefix}:${key}`, points: 1_000_000, expire: Date.now() + seconds * 1000 }))
+  await testDb()('rate_limits').insert(rows).onConflict('key').merge()
+}
+
+async function release(prefix: string, keys: string[]): Promise<void> {
+  await testDb()('rate_limits').whereIn('key', keys.map(k => `${prefix}:${k}`)).delete()
+}
+
+function retryAfter(res: { headers: Headers }): number {
+  return Number(res.headers.get('retry-after'))
+}
+
+describe('sign-in limits', () => {
+  it('answers 429 with Retry-After after five wrong passwords for one account, even to the right one', async () => {
+    const account = await makeAccount('teacher')
+    const statuses: number[] = []
+    for (let i = 0; i < 30; i++) statuses.push((await new Client().post('/api/auth/login', { email: account.email, password: `wrong-${i}-guess` })).status)
+    expect(statuses.slice(0, 5)).toEqual([401, 401, 401, 401, 401])
+    expect(new Set(statuses.slice(5))).toEqual(new Set([429]))
+    const right = await new Client().post('/api/auth/login', { email: account.email, password: TEST_PASSWORD })
+    expect(right.status).toBe(429)
+    expect(retryAfter(right)).toBeGreaterThan(0)
+    expect(retryAfter(right)).toBeLessThanOrEqual(900)
+    // The count lives in MariaDB: clearing it there lets the account in again.
+    await release('signInAccount', [account.email])
+    expect((await new Client().post('/api/auth/login', { email: account.email, password: TEST_PASSWORD })).status).toBe(200)
+  })
+
+  it('answers 429 to any sign-in from an address whose shared counter is spent, and counts each failure', async () => {
+    await exhaust('signInIp', LOOPBACK_ADDRESSES)
+    try {
+      const res = await new Client().post('/api/auth/login', { email: 'student@evenhand.test', password: 'evenhand-demo' })
+      expect(res.status).toBe(429)
+      expect(retryAfter(res)).toBeGreaterThan(0)
+    }
+    finally {
+      await release('signInIp', LOOPBACK_ADDRESSES)
+    }
+    await new Client().post('/api/auth/login', { email: `nobody-${Date.now()}@evenhand.test`, password: 'some-guess-1' })
+    const rows = await testDb()('rate_limits').whereIn('key', LOOPBACK_ADDRESSES.map(a => `signInIp:${a}`))
+    expect(rows.map(r => r.points)).toEqual([1])
+    await release('signInIp', LOOPBACK_ADDRESSES)
+  })
+
+  it('takes as long for an unknown e-mail as for a known one with a wrong password', async () => {
+    const account = await makeAccount('teacher')
+    const time = async (email: string): Promise<number> => {
+      const start = performance.now()
+      await new Client().post('/api/auth/login', { email, password: 'not-the-password' })
+      return performance.now() - start
+    }
+    const known: number[] = []
+    const unknown: number[] = []
+    // Interleaved and only four against the account's limit of five, then the counter is cleared.
+    for (let i = 0; i < 4; i++) {
+      known.push(await time(account.email))
+      unknown.push(await time(`nobody-${Date.now()}-${i}@evenhand.test`))
+    }
+    await release('signInAccount', [account.email])
+    const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!
+    // Before: about 47 ms against 3 ms. An scrypt check on both sides keeps them within a factor of two.
+    expect(median(unknown) / median(known)).toBeGreaterThan(0.5)
+  })
+})
+
+describe('sign-up', () => {
+  it('answers 429 with Retry-After when the address\'s sign-ups are spent, and counts each one', async () => {
+    await exhaust('signUpIp', LOOPBACK_ADDRESSES)
+    const email = `limited-${Date.now()}@evenhand.test`
+    try {
+      const res = await new Client().post('/api/auth/register', { name: 'Tess Hale', email, password: 'plenty-of-words-2' })
+      expect(res.status).toBe(429)
+      expect(retryAfter(res)).toBeGreaterThan(0)
+      expect(await testDb()('users').where({ email }).first()).toBeUndefined()
+    }
+    finally {
+      await release('signUpIp', LOOPBACK_ADDRESSES)
+    }
+    expect((await new Client().post('/api/auth/register', { name: 'Tess Hale', email, password: 'plenty-of-words-2' })).status).toBe(201)
+    const rows = await testDb()('rate_limits').whereIn('key', LOOPBACK_ADDRESSES.map(a => `signUpIp:${a}`))
+    expect(rows.map(r => r.points)).toEqual([1])
+    await release('signUpIp', LOOPBACK_ADDRESSES)
+  })
+
+  it.each([
+    ['password', /common/],
+    ['Password', /common/],
+    ['12345678', /common/],
+    ['qwertyuiop', /common/],
+    ['        ', /spaces/],
+    ['\t\t\t\t\t\t\t\t', /spaces/],
+  ])('refuses the password %j with a 400 on the password field', async (password, reason) => {
+    const email = `rule-${Date.now()}@evenhand.test`
+    const res = await new Client().post('/api/auth/register', { name: 'Tess Hale', email, password })
+    expect(res.status).toBe(400)
+    expect(String(res.body.message)).toMatch(/^password:/)
+    expect(String(res.body.message)).toMatch(reason)
+    expect(await testDb()('users').where({ email }).first()).toBeUndefined()
+  })
+
+  it('refuses the account\'s own e-mail as its password', async () => {
+    const email = `selfish-${Date.now()}@evenhand.test`
+    const res = await new Client().post('/api/auth/register', { name: 'Tess Hale', email, password: email })
+    expect(res.status).toBe(400)
+    expect(String(res.body.message)).toMatch(/^password:.*e-mail/)
+  })
+})
+
+describe('attempts per student per minute', () => {
+  let noor: Client
+  let noorId: string
+  beforeAll(async () => {
+    noor = await new Client().signIn('student@evenhand.test')
+    noorId = String((await testDb()('users').where({ email: 'student@evenhand.test' }).first('id')).id)
+  })
+
+  it('answers 429 with Retry-After once the minute\'s attempts are spent, storing nothing, then takes the same attempt', async () => {
+    const drill = await scaleDrill(noor)
+    const body = attemptBody(drill)
+    await exhaust('attempts', [noorId], 60)
+    try {
+      const res = await noor.post('/api/attempts', body)
+      expect(res.status).toBe(429)
+      expect(retryAfter(res)).toBeGreaterThan(0)
+      expect(retryAfter(res)).toBeLessThanOrEqual(60)
+      expect(await testDb()('attempts').where({ id: body.id }).first()).toBeUndefined()
+    }
+    finally {
+      await release('attempts', [noorId])
+    }
+    expect((await noor.post('/api/attempts', body)).status).toBe(201)
+  })
+})
