@@ -57,6 +57,8 @@ export default defineNuxtConfig({
       signInFailuresPerAccount: 5,
       signInWindowSeconds: 900,
       signUpsPerIpPerHour: 20,
+      // Wrong class codes a signed-in student may try within the sign-in window.
+      joinCodeFailuresPerAccount: 10,
       // A drill takes seconds to play: thirty a minute is far beyond any real student.
       attemptsPerStudentPerMinute: 30,
     },

@@ -3,7 +3,7 @@
 import type { H3Event } from 'h3'
 import { RateLimiterMySQL, RateLimiterRes } from 'rate-limiter-flexible'
 
-export type LimitName = 'signInIp' | 'signInAccount' | 'signUpIp' | 'attempts'
+export type LimitName = 'signInIp' | 'signInAccount' | 'signUpIp' | 'joinCode' | 'attempts'
 
 const limiters = new Map<LimitName, RateLimiterMySQL>()
 
@@ -15,6 +15,7 @@ function limiter(event: H3Event, name: LimitName): RateLimiterMySQL {
       signInIp: { points: Number(limits.signInFailuresPerIp), duration: Number(limits.signInWindowSeconds) },
       signInAccount: { points: Number(limits.signInFailuresPerAccount), duration: Number(limits.signInWindowSeconds) },
       signUpIp: { points: Number(limits.signUpsPerIpPerHour), duration: 3600 },
+      joinCode: { points: Number(limits.joinCodeFailuresPerAccount), duration: Number(limits.signInWindowSeconds) },
       attempts: { points: Number(limits.attemptsPerStudentPerMinute), duration: 60 },
     }
     found = new RateLimiterMySQL({

@@ -142,3 +142,17 @@ describe('attempts per student per minute', () => {
     expect((await noor.post('/api/attempts', body)).status).toBe(201)
   })
 })
+
+describe('class codes', () => {
+  it('answers 429 after ten wrong codes from one student, even to the right code', async () => {
+    const student = await makeAccount('student')
+    const statuses: number[] = []
+    for (let i = 0; i < 12; i++) statuses.push((await student.client.post('/api/classes/join', { code: `ZZZZ${String(i).padStart(2, '0')}` })).status)
+    expect(statuses.slice(0, 10)).toEqual(Array(10).fill(404))
+    expect(statuses.slice(10)).toEqual([429, 429])
+    const code = String((await testDb()('classes').whereNotNull('join_code').whereNull('archived_at').first('join_code')).join_code)
+    expect((await student.client.post('/api/classes/join', { code })).status).toBe(429)
+    await release('joinCode', [String(student.id)])
+    expect((await student.client.post('/api/classes/join', { code })).status).toBe(200)
+  })
+})
