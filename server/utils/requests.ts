@@ -27,18 +27,35 @@ function tooLarge(limit: number): Error {
  */
 export async function readBoundedBody(event: H3Event, limit: number): Promise<void> {
   if (Number(getRequestHeader(event, 'content-length') ?? 0) > limit) throw tooLarge(limit)
-  const chunks: Buffer[] = []
-  let size = 0
-  for await (const chunk of event.node.req) {
-    size += (chunk as Buffer).length
-    if (size > limit) {
-      // The rest is never read: close the connection rather than drain it.
-      setResponseHeader(event, 'connection', 'close')
-      throw tooLarge(limit)
+  const req = event.node.req
+  const body = await new Promise<Buffer>((resolve, reject) => {
+    const chunks: Buffer[] = []
+    let size = 0
+    const stop = (): void => {
+      req.off('data', onData)
+      req.off('end', onEnd)
+      req.off('error', onError)
     }
-    chunks.push(chunk as Buffer)
-  }
-  ;(event as H3Event & { _requestBody?: Buffer })._requestBody = Buffer.concat(chunks)
+    const onData = (chunk: Buffer): void => {
+      size += chunk.length
+      if (size <= limit) return void chunks.push(chunk)
+      // Stop reading but leave the socket open long enough to answer; the connection closes after the reply.
+      stop()
+      req.pause()
+      setResponseHeader(event, 'connection', 'close')
+      reject(tooLarge(limit))
+    }
+    const onEnd = (): void => {
+      stop()
+      resolve(Buffer.concat(chunks))
+    }
+    const onError = (error: Error): void => {
+      stop()
+      reject(error)
+    }
+    req.on('data', onData).on('end', onEnd).on('error', onError)
+  })
+  ;(event as unknown as { _requestBody: Buffer })._requestBody = body
 }
 
 /** A browser names the site a request comes from; anything but our own origin is refused for state changes. */
