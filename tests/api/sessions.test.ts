@@ -2,7 +2,7 @@
 // admin's decision no longer reads anything, and sessions lapse when idle or old.
 import { afterAll, describe, expect, it } from 'vitest'
 import { Client, closeTestDb, testDb } from '../support/server'
-import { makeAccount } from '../support/accounts'
+import { makeAccount, TEST_PASSWORD } from '../support/accounts'
 import { linkIn, waitForMail } from '../support/mail'
 
 afterAll(closeTestDb)
@@ -67,6 +67,19 @@ describe('server-side sessions', () => {
     expect((await browser.post('/api/auth/reset', { token, password: 'fresh-cadence-4' })).status).toBe(200)
     expect(await other('/api/classes')).toBe(401)
     expect((await browser.get('/api/classes')).status).toBe(200)
+  })
+
+  it('ends the other sessions when the password is changed in settings, and keeps this browser signed in', async () => {
+    const account = await makeAccount('teacher')
+    const other = replay(account.client)
+    expect(await other('/api/classes')).toBe(200)
+    const common = await account.client.post('/api/account/password', { currentPassword: TEST_PASSWORD, password: 'password123' })
+    expect(common.status).toBe(400)
+    expect(await other('/api/classes')).toBe(200)
+    expect((await account.client.post('/api/account/password', { currentPassword: TEST_PASSWORD, password: 'quiet-arpeggio-7' })).status).toBe(200)
+    expect(await other('/api/classes')).toBe(401)
+    expect((await account.client.get('/api/classes')).status).toBe(200)
+    expect(await sessionRows(account.id)).toBe(1)
   })
 
   it('lets an admin end a user\'s sessions, and no one else', async () => {
