@@ -117,8 +117,8 @@ export const usePracticeStore = defineStore('practice', () => {
 
   /** Sets the teacher's ceiling (null: none) and, optionally, the tempo to start from. */
   function setTargetTempo(target: number | null, startBpm?: number): void {
-    if (target !== null && !(Number.isFinite(target) && target >= 20 && target <= 320)) {
-      throw new RangeError(`The target tempo must be between 20 and 320 beats per minute, got ${target}`)
+    if (target !== null && !(Number.isFinite(target) && target >= TEMPO_LIMITS.min && target <= TEMPO_LIMITS.max)) {
+      throw new RangeError(`The target tempo must be between ${TEMPO_LIMITS.min} and ${TEMPO_LIMITS.max} beats per minute, got ${target}`)
     }
     targetBpm.value = target
     if (startBpm !== undefined) tempoBpm.value = startBpm
