@@ -27,11 +27,15 @@ function sendChunked(path: string, cookie: string, head: string, totalBytes: num
       res.on('data', (c: Buffer) => (body += c.toString()))
       res.on('end', () => resolve({ status: res.statusCode ?? 0, body }))
     })
-    // The server may close the connection before all of it is written (that is the point): only an error
-    // before any reply fails the test.
     let answered = false
     req.on('response', () => (answered = true))
-    req.on('error', error => answered ? undefined : reject(error))
+    // The server's close can overtake its 413 on the wire (the socket resets with our bytes unread): that too
+    // means the body was not read whole, so it resolves as a reset rather than failing.
+    req.on('error', (error: NodeJS.ErrnoException) => {
+      if (answered) return
+      if (error.code === 'EPIPE' || error.code === 'ECONNRESET') resolve({ status: 0, body: 'reset' })
+      else reject(error)
+    })
     req.write(head)
     const chunk = ' '.repeat(64 * 1024)
     let sent = head.length
@@ -74,16 +78,10 @@ describe('dates and numbers MariaDB cannot hold', () => {
 
 describe('the body limit counts the bytes read', () => {
   it('stops a chunked 30 MB body with 413', async () => {
-    const total = 30 * 1024 * 1024
-    try {
-      const res = await sendChunked('/api/attempts', noor.cookieHeader, '{"pad":"', total)
+    const res = await sendChunked('/api/attempts', noor.cookieHeader, '{"pad":"', 30 * 1024 * 1024)
+    if (res.status !== 0) {
       expect(res.status).toBe(413)
       expect(res.body).toMatch(/larger than 2 MB/)
-    }
-    catch (error) {
-      // The server's close can overtake its 413 on the wire (the socket resets with our bytes unread);
-      // a reset long before the 30 MB were sent still shows the body was not read whole.
-      expect((error as NodeJS.ErrnoException).code).toMatch(/^(EPIPE|ECONNRESET)$/)
     }
   })
 
@@ -91,7 +89,7 @@ describe('the body limit counts the bytes read', () => {
     const body = attemptBody(drill)
     const head = JSON.stringify(body).slice(0, -1) + ',"padding":"'
     const res = await sendChunked('/api/attempts', noor.cookieHeader, head, 3 * 1024 * 1024)
-    expect(res.status).toBe(413)
+    expect([0, 413]).toContain(res.status)
     expect(await stored(body.id)).toBe(0)
   })
 
