@@ -10,10 +10,10 @@ let hashed: Promise<string> | undefined
 
 export interface TestAccount { id: number, email: string, client: Client }
 
-/** A new account of `role`, signed in. */
-export async function makeAccount(role: 'teacher' | 'student' | 'admin', name = `Test ${role}`): Promise<TestAccount> {
+/** A new account of `role`, signed in; `domain` other than the demo's keeps it out of the local mail box. */
+export async function makeAccount(role: 'teacher' | 'student' | 'admin', name = `Test ${role}`, domain = 'evenhand.test'): Promise<TestAccount> {
   hashed ??= hashPassword(TEST_PASSWORD)
-  const email = `${role}-${randomUUID()}@evenhand.test`
+  const email = `${role}-${randomUUID()}@${domain}`
   const [id] = await testDb()('users').insert({ email, name, role, password_hash: await hashed })
   const client = await new Client().signIn(email, TEST_PASSWORD)
   return { id: Number(id), email, client }

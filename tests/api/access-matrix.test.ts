@@ -1,0 +1,44 @@
+// Who may call what: every route under server/api × seven callers, each with the status the product rules give
+// (tests/support/route-table.ts), against the built server and MariaDB. A route file without a row fails here.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { closeTestDb } from '../support/server'
+import { CALLERS, ROUTES, World, apiRoutes, send, type Caller } from '../support/route-table'
+
+afterAll(closeTestDb)
+
+describe('the access matrix', () => {
+  let world: World
+  beforeAll(async () => {
+    world = await World.build()
+  })
+
+  it('has a row for every route file and no row without one', () => {
+    const routes = apiRoutes()
+    // The tree itself: a broken walk would make every other check here vacuous.
+    expect(routes).toContain('POST /api/attempts')
+    expect(routes).toContain('DELETE /api/classes/[id]/students/[studentId]')
+    expect(routes.filter(r => !(r in ROUTES)), 'routes without a row in tests/support/route-table.ts').toEqual([])
+    expect(Object.keys(ROUTES).filter(r => !routes.includes(r)), 'rows without a route file').toEqual([])
+  })
+
+  for (const route of apiRoutes()) {
+    const row = ROUTES[route]
+    if (!row) continue
+    it(`${route}: ${row.expect.join(' ')}`, async () => {
+      const got: Partial<Record<Caller, number>> = {}
+      const leaks: string[] = []
+      for (const caller of CALLERS) {
+        const client = row.session ? await world.freshClient(caller) : world.client(caller)
+        const res = await send(client, route, await row.request(world))
+        got[caller] = res.status
+        if (row.session === 'ends') await world.renewClient(caller)
+        if (row.shows && res.status < 300) {
+          const holds = JSON.stringify(res.body).includes(row.shows.text(world))
+          if (holds !== row.shows.to.includes(caller)) leaks.push(`${caller} ${holds ? 'sees' : 'misses'} it`)
+        }
+      }
+      expect(got).toEqual(Object.fromEntries(CALLERS.map((caller, i) => [caller, row.expect[i]])))
+      expect(leaks).toEqual([])
+    })
+  }
+})
