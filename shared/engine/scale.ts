@@ -243,9 +243,32 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
 /**
  * The thumb passes under 3 across a fourth and under 4 across a third in arpeggios (common practice,
  * from memory: root positions 1 2 3 5, inversions and seventh chords 1 2 4 5 and 1 2 3 4, the same in
- * the left hand's mirror image). In semitones, the smallest passing that takes 3.
+ * the left hand's mirror image; arpeggioPassFinger names the exception). In semitones, the smallest
+ * passing that takes 3.
  */
 const PASS_UNDER_THREE = 5
+
+/**
+ * The finger the thumb passes under into `phase` of an arpeggio (pitch classes `classes`, ascending):
+ * 3 across a fourth, 4 across a third, but 3 across a third onto a black key where 2 and 3 span the
+ * gap above the thumb's next finger (a triad, the step from 2's key to the passing key at most a major
+ * third) and the thumb sits on a white key or passes a major third. Common practice, from memory: the
+ * longer third finger crosses to a black key, as in the left hand's D, A, E and B majors and C, F and
+ * G minors (5 3 2 1), the right hand's B♭ minor (2 3 1 2) and the left hand's G♭ major; where 2 and the
+ * passing key are a fourth apart (the right hand's D♭, A♭ and E♭ majors, 4 1 2 4) or the thumb on a
+ * black key passes only a minor third (the left hand's E♭ minor, 5 4 2 1) it stays 4.
+ */
+function arpeggioPassFinger(classes: number[], phase: number): Finger {
+  const m = classes.length
+  const at = (p: number): number => classes[(p + m) % m]!
+  const passing = (at(phase) - at(phase - 1) + 12) % 12
+  if (passing >= PASS_UNDER_THREE) return 3
+  const reach = (at(phase - 1) - at(phase + 1) + 12) % 12
+  const ontoBlack = isBlackKey(at(phase - 1)) && (!isBlackKey(at(phase)) || passing >= MAJOR_THIRD)
+  return m === 3 && reach < PASS_UNDER_THREE && ontoBlack ? 3 : 4
+}
+
+const MAJOR_THIRD = 4
 
 /**
  * Scale conventions of the printed tables (common practice), charged per note of the run so that they
@@ -262,7 +285,7 @@ const PASS_UNDER_THREE = 5
  *   rules would trade at the harmonic minor's augmented second (4 then 2 in the left hand).
  * An arpeggio keeps the thumb off black keys and on its first class when white, as a scale does, takes
  * no gap rule (1 2 4 is its usual shape), and passes the thumb under 3 or 4 by the width of the pass
- * (PASS_UNDER_THREE).
+ * and the colour of the key it passes from (arpeggioPassFinger).
  * A chromatic run (all twelve classes) has no keynote to meet on; instead every black key takes 3
  * (common practice, from memory: the usual chromatic fingering, 3 on the black keys and the thumb on
  * the white ones, 2 where two white keys meet), which the span rules alone, counting thumb passes,
@@ -286,8 +309,7 @@ function addConventions(windows: Float64Array[], keys: number[], phases: number[
   for (let phase = 0; phase < m; phase++) {
     const notes = white[phase]! + black[phase]!
     // The arpeggio's thumb passing into this phase: from the class below, a third or a fourth away.
-    const passing = (classes[phase]! - classes[(phase + m - 1) % m]! + 12) % 12
-    const passFinger = passing >= PASS_UNDER_THREE ? 3 : 4
+    const passFinger = kind === 'arpeggio' ? arpeggioPassFinger(classes, phase) : 0
     const below = (phase + m - 1) % m
     const fromWhite = white[below]! / (white[below]! + black[below]!)
     const window = windows[phase]!

@@ -15,6 +15,7 @@ const RECORDED: { version: string, digest: string }[] = [
   { version: '1.4.0', digest: 'd0a7323301a88271' },
   { version: '1.5.0', digest: '394c5a7dd63437ea' },
   { version: '1.6.0', digest: '0c44a0e501419131' },
+  { version: '1.7.0', digest: '1b8aac23af4ecfac' },
 ]
 
 /** A reproducible stream of numbers in [0, 1) (a linear congruential generator). */
@@ -59,6 +60,8 @@ function results(): unknown[] {
     suggestFingering({ hand: 'right', notes: [64, 67, 72, 67, 64] }),
     suggestFingering({ hand: 'right', notes: [...scale.slice(0, 10), 77, 76, 77, 76, 77, 76, 77] }),
     suggestFingering({ hand: 'left', notes: [0, 1, 2, 3, 4].flatMap(g => [scale[g]!, scale[g + 1]!, scale[g + 2]!, scale[g]!].map(m => m - 24)) }),
+    // From 1.7.0 on: the left hand's D major arpeggio (3 onto the black third).
+    suggestFingering({ hand: 'left', notes: [38, 42, 45, 50, 54, 57, 62, 57, 54, 50, 45, 42, 38] }),
   ]
 }
 
