@@ -61,6 +61,9 @@ export default defineNuxtConfig({
       joinCodeFailuresPerAccount: 10,
       // A drill takes seconds to play: thirty a minute is far beyond any real student.
       attemptsPerStudentPerMinute: 30,
+      // Password links asked for per address (known or not, counted alike) and per client address per hour.
+      forgotPerAddressPerHour: 3,
+      forgotPerIpPerHour: 20,
     },
     sessions: {
       // Signed out after two weeks unused, and after sixty days whatever happens.

@@ -16,7 +16,7 @@ npm run -s typecheck
 
 # Every test comes from 127.0.0.1 and many play as one demo student: the per-address and per-student limits
 # are raised so tests do not trip over each other; tests/api/limits.test.ts fills the shared counters itself.
-export NUXT_LIMITS_SIGN_IN_FAILURES_PER_IP=1000 NUXT_LIMITS_SIGN_UPS_PER_IP_PER_HOUR=1000 NUXT_LIMITS_ATTEMPTS_PER_STUDENT_PER_MINUTE=1000
+export NUXT_LIMITS_SIGN_IN_FAILURES_PER_IP=1000 NUXT_LIMITS_SIGN_UPS_PER_IP_PER_HOUR=1000 NUXT_LIMITS_ATTEMPTS_PER_STUDENT_PER_MINUTE=1000 NUXT_LIMITS_FORGOT_PER_IP_PER_HOUR=1000
 start_test_stack
 
 log "vitest"

@@ -3,7 +3,7 @@
 import type { H3Event } from 'h3'
 import { RateLimiterMySQL, RateLimiterRes } from 'rate-limiter-flexible'
 
-export type LimitName = 'signInIp' | 'signInAccount' | 'signUpIp' | 'joinCode' | 'attempts'
+export type LimitName = 'signInIp' | 'signInAccount' | 'signUpIp' | 'joinCode' | 'attempts' | 'forgotIp' | 'forgotAddress'
 
 const limiters = new Map<LimitName, RateLimiterMySQL>()
 
@@ -17,6 +17,8 @@ function limiter(event: H3Event, name: LimitName): RateLimiterMySQL {
       signUpIp: { points: Number(limits.signUpsPerIpPerHour), duration: 3600 },
       joinCode: { points: Number(limits.joinCodeFailuresPerAccount), duration: Number(limits.signInWindowSeconds) },
       attempts: { points: Number(limits.attemptsPerStudentPerMinute), duration: 60 },
+      forgotIp: { points: Number(limits.forgotPerIpPerHour), duration: 3600 },
+      forgotAddress: { points: Number(limits.forgotPerAddressPerHour), duration: 3600 },
     }
     found = new RateLimiterMySQL({
       storeClient: useDb(),

@@ -1,5 +1,5 @@
 // Rate limits held in MariaDB's rate_limits table (shared by every app instance), equal work for known and
-// unknown e-mails at sign-in, the password rule, and attempts per student per minute.
+// unknown e-mails at sign-in, the password rule, password links, and attempts per student per minute.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Client, closeTestDb, testDb } from '../support/server'
 import { LOOPBACK_ADDRESSES, makeAccount, TEST_PASSWORD } from '../support/accounts'
@@ -114,6 +114,48 @@ describe('sign-up', () => {
     const res = await new Client().post('/api/auth/register', { name: 'Tess Hale', email, password: email })
     expect(res.status).toBe(400)
     expect(String(res.body.message)).toMatch(/^password:.*e-mail/)
+  })
+})
+
+describe('password links', () => {
+  it('answers a known and an unknown e-mail alike: three 202s an hour, then 429 with Retry-After, and mails only the known one', async () => {
+    const known = (await makeAccount('teacher')).email
+    const unknown = `nobody-${Date.now()}@evenhand.test`
+    const run = async (email: string): Promise<{ status: number, body: unknown, retryAfter: number }[]> => {
+      const replies = []
+      for (let i = 0; i < 5; i++) {
+        const res = await new Client().post('/api/auth/forgot', { email })
+        replies.push({ status: res.status, body: res.body, retryAfter: retryAfter(res) })
+      }
+      return replies
+    }
+    const [a, b] = [await run(known), await run(unknown)]
+    expect(a.map(r => r.status)).toEqual([202, 202, 202, 429, 429])
+    expect(b.map(r => r.status)).toEqual(a.map(r => r.status))
+    expect(b.map(r => r.body)).toEqual(a.map(r => r.body))
+    for (const r of [...a, ...b].filter(r => r.status === 429)) {
+      expect(r.retryAfter).toBeGreaterThan(3000)
+      expect(r.retryAfter).toBeLessThanOrEqual(3600)
+    }
+    // The address's case does not make a new counter.
+    expect((await new Client().post('/api/auth/forgot', { email: known.toUpperCase() })).status).toBe(429)
+    expect(await testDb()('mail_outbox').where({ to_email: known, template: 'password-reset' }).count({ n: '*' })).toEqual([{ n: 3 }])
+    expect(await testDb()('mail_outbox').where({ to_email: unknown }).count({ n: '*' })).toEqual([{ n: 0 }])
+  })
+
+  it('answers 429 to any address once the client address\'s shared counter is spent', async () => {
+    const { email } = await makeAccount('student')
+    await exhaust('forgotIp', LOOPBACK_ADDRESSES, 3600)
+    try {
+      const res = await new Client().post('/api/auth/forgot', { email })
+      expect(res.status).toBe(429)
+      expect(retryAfter(res)).toBeGreaterThan(0)
+      expect(await testDb()('mail_outbox').where({ to_email: email }).count({ n: '*' })).toEqual([{ n: 0 }])
+    }
+    finally {
+      await release('forgotIp', LOOPBACK_ADDRESSES)
+    }
+    expect((await new Client().post('/api/auth/forgot', { email })).status).toBe(202)
   })
 })
 
