@@ -1,7 +1,7 @@
 import type { Knex } from 'knex'
 import { z } from 'zod'
 import type { User } from '#auth-utils'
-import type { AttemptInput, AttemptPart } from '#shared/types/attempt'
+import type { AttemptInput, AttemptListQuery, AttemptPart } from '#shared/types/attempt'
 import { beatsPerBar, drillPart } from '#shared/utils/part'
 import { trustedEvents } from '#shared/utils/timeline'
 import { ENGINE_VERSION, gradeAttempt, type GradeResult } from '#shared/engine'
@@ -59,6 +59,43 @@ export function toAttemptSummary(row: AttemptRow): AttemptSummary {
 
 /** The columns a list needs; raw events stay out of lists because they are the bulk of a row. */
 export const SUMMARY_COLUMNS = ['id', 'student_id', 'drill_id', 'drill_version', 'assignment_id', 'started_at', 'tempo_bpm', 'input_device', 'score', 'result', 'engine_version']
+
+export interface AttemptPage {
+  attempts: AttemptSummary[]
+  /** Pass as `cursor` for the next (older) page; null on the last page. */
+  nextCursor: string | null
+}
+
+/**
+ * The attempts `user` may see, newest first, one page at a time. Paged by (started_at, id) rather than by
+ * offset, so a page costs the same however deep it is and an attempt saved meanwhile neither repeats nor
+ * skips a row of the pages after it.
+ */
+export async function listAttempts(db: Knex, user: User, { drill, student, limit, cursor }: AttemptListQuery): Promise<AttemptPage> {
+  const q = db('attempts').select(SUMMARY_COLUMNS)
+    .orderBy([{ column: 'started_at', order: 'desc' }, { column: 'id', order: 'desc' }])
+    .limit(limit + 1)
+  if (drill) q.where('drill_id', drill)
+  if (user.role === 'student') {
+    if (student && student !== user.id) throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: 'Students see only their own attempts' })
+    q.where('student_id', user.id)
+  }
+  else if (user.role === 'teacher') {
+    q.whereIn('student_id', taughtStudentIds(db, user.id))
+    if (student) q.where('student_id', student)
+  }
+  else if (student) {
+    q.where('student_id', student)
+  }
+  if (cursor) {
+    const at = new Date(cursor.at)
+    q.where(w => w.where('started_at', '<', at).orWhere(same => same.where('started_at', at).where('id', '<', cursor.id)))
+  }
+  const rows = await q
+  const page = rows.slice(0, limit).map(toAttemptSummary)
+  const last = page.at(-1)
+  return { attempts: page, nextCursor: rows.length > limit && last ? `${last.startedAt}_${last.id}` : null }
+}
 
 export async function loadAttempt(db: Knex, id: string): Promise<AttemptDetail | undefined> {
   const row = await db('attempts').where({ id }).first()

@@ -27,6 +27,35 @@ export interface ClassProgress {
 
 interface ItemRow { id: number, title: string, kind: string, target_score: number | null, due_at: Date | null, student_id: number | null }
 
+interface CellFigures { attempts: number, best: number, latest: number, beforeSum: number, beforeCount: number }
+
+/**
+ * Count, best and latest score of each student × drill, and the sum and count of the up to four scores
+ * before the latest (for the trend), aggregated in MariaDB over the covering index
+ * (student_id, drill_id, started_at, score): no attempt row leaves the database, however many were played.
+ * Attempts started in the same millisecond are ordered by id, so "latest" is one attempt.
+ */
+async function cellFigures(db: Knex, studentIds: number[], drillIds: number[]): Promise<Map<string, CellFigures>> {
+  const ranked = db('attempts').whereIn('student_id', studentIds).whereIn('drill_id', drillIds)
+    .select('student_id', 'drill_id', 'score',
+      db.raw('ROW_NUMBER() OVER (PARTITION BY student_id, drill_id ORDER BY started_at DESC, id DESC) AS rn'))
+  const rows: Record<string, unknown>[] = await db.from(ranked.as('r')).groupBy('student_id', 'drill_id').select(
+    'student_id', 'drill_id',
+    db.raw('COUNT(*) AS n'),
+    db.raw('MAX(score) AS best'),
+    db.raw('MAX(CASE WHEN rn = 1 THEN score END) AS latest'),
+    db.raw('SUM(CASE WHEN rn BETWEEN 2 AND 5 THEN score END) AS before_sum'),
+    db.raw('COUNT(CASE WHEN rn BETWEEN 2 AND 5 THEN 1 END) AS before_n'),
+  )
+  return new Map(rows.map(r => [`${r.student_id}:${r.drill_id}`, {
+    attempts: Number(r.n),
+    best: Number(r.best),
+    latest: Number(r.latest),
+    beforeSum: Number(r.before_sum ?? 0),
+    beforeCount: Number(r.before_n),
+  }]))
+}
+
 /** Students × drills of one class: what a teacher reads at a glance before a lesson. */
 export async function classProgress(db: Knex, teacherId: number, classId: number, className: string, now = Date.now()): Promise<ClassProgress> {
   const students: { id: number, name: string }[] = await db('class_members as m').join('users as u', 'u.id', 'm.student_id')
@@ -50,31 +79,22 @@ export async function classProgress(db: Knex, teacherId: number, classId: number
       Object.assign(known, { forSomeOnly: false, targetScore: it.target_score, dueAt: it.due_at ? new Date(it.due_at).toISOString() : null })
     }
   }
-  const attempts: { student_id: number, drill_id: number, score: number }[] = students.length && drills.size
-    ? await db('attempts').whereIn('student_id', studentIds).whereIn('drill_id', [...drills.keys()])
-        .orderBy('started_at').select('student_id', 'drill_id', 'score')
-    : []
-  const scores = new Map<string, number[]>()
-  for (const a of attempts) {
-    const key = `${a.student_id}:${a.drill_id}`
-    scores.set(key, [...(scores.get(key) ?? []), Number(a.score)])
-  }
+  const figures = students.length && drills.size ? await cellFigures(db, studentIds, [...drills.keys()]) : new Map<string, CellFigures>()
   const cells: ClassProgress['cells'] = {}
   for (const s of students) {
     cells[s.id] = {}
     // The assignments that reach this student: the class's, and the ones made to them alone.
     const reaching = items.filter(it => it.student_id === null || Number(it.student_id) === Number(s.id))
     for (const d of drills.values()) {
-      const list = scores.get(`${s.id}:${d.id}`) ?? []
-      const best = list.length ? Math.max(...list) : null
-      const before = list.slice(-5, -1)
+      const f = figures.get(`${s.id}:${d.id}`)
+      const best = f?.best ?? null
       const dues = reaching.filter(it => Number(it.id) === d.id)
       cells[s.id]![d.id] = {
         assigned: dues.length > 0,
-        attempts: list.length,
+        attempts: f?.attempts ?? 0,
         best,
-        latest: list.at(-1) ?? null,
-        trend: before.length ? list.at(-1)! - before.reduce((x, y) => x + y, 0) / before.length : null,
+        latest: f?.latest ?? null,
+        trend: f && f.beforeCount > 0 ? f.latest - f.beforeSum / f.beforeCount : null,
         overdue: dues.some(it => it.due_at !== null && new Date(it.due_at).getTime() < now && (best === null || best < (it.target_score ?? 0))),
       }
     }

@@ -49,3 +49,23 @@ export const AttemptInput = z.object({
   part: AttemptPart.nullable().optional(),
 })
 export type AttemptInput = z.infer<typeof AttemptInput>
+
+/** Where a page of an attempt list ended: the last attempt's start and id, written `<ISO time>_<id>`. */
+export const AttemptCursor = z.string().max(80).transform((text, ctx) => {
+  const [at, id, ...rest] = text.split('_')
+  const parsed = z.object({ at: StoredTimestamp, id: z.uuid() }).safeParse({ at, id })
+  if (rest.length > 0 || !parsed.success) {
+    ctx.issues.push({ code: 'custom', message: 'not the nextCursor of an earlier page', input: text })
+    return z.NEVER
+  }
+  return parsed.data
+})
+
+/** An attempt list, newest first, one page at a time: `nextCursor` of one page asks for the next. */
+export const AttemptListQuery = z.object({
+  drill: z.coerce.number().pipe(RowId).optional(),
+  student: z.coerce.number().pipe(RowId).optional(),
+  limit: z.coerce.number().int().min(1).max(100).default(50),
+  cursor: AttemptCursor.optional(),
+})
+export type AttemptListQuery = z.infer<typeof AttemptListQuery>
