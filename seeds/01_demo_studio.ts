@@ -4,7 +4,8 @@ import type { Knex } from 'knex'
 import { ENGINE_VERSION, gradeAttempt } from '../shared/engine'
 import { hashPassword } from '../scripts/lib/password'
 import { assignments, classes, dailyStudent, DEMO_PASSWORD, drills, drillSets, students, teacher } from './demo/studio'
-import { performDrill, randomSource } from './demo/performance'
+import { performDrill } from './demo/performance'
+import { seededRandom } from '../shared/utils/random'
 import { endOfDueDay } from '../shared/utils/dueDate'
 
 const DAY_MS = 86_400_000
@@ -48,7 +49,7 @@ export async function seed(knex: Knex): Promise<void> {
       })))
     }
 
-    const random = randomSource(20261201)
+    const random = seededRandom(20261201)
     const now = Date.now()
     for (const a of assignments) {
       const [assignmentId] = await trx('assignments').insert({

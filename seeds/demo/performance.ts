@@ -3,22 +3,7 @@
 import type { PlayedEvent } from '../../shared/types/attempt'
 import type { DrillNote } from '../../shared/types/drill'
 import { Note } from 'tonal'
-
-/** A small seeded generator (mulberry32), so every seed run builds the same studio. */
-export function randomSource(seed: number): () => number {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6D2B79F5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
-
-function gaussian(random: () => number): number {
-  return Math.sqrt(-2 * Math.log(1 - random())) * Math.cos(2 * Math.PI * random())
-}
+import { gaussian } from '../../shared/utils/random'
 
 export interface PerformanceStyle {
   tempoBpm: number

@@ -220,7 +220,7 @@ describe('an attempt as a Standard MIDI File', () => {
     const noor = await studentId('student@evenhand.test')
     const a = await testDb()('attempts').where('student_id', noor).orderBy('started_at', 'desc').first()
     const student = await new Client().signIn('student@evenhand.test')
-    const res = await student.bytes(`/api/attempts/${a.id}/export.mid`)
+    const res = await student.get<Uint8Array>(`/api/attempts/${a.id}/export.mid`)
     expect(res.status).toBe(200)
     expect(res.headers.get('content-type')).toBe('audio/midi')
     const midi = parseMidi(res.body)

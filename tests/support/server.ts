@@ -22,6 +22,7 @@ export interface Reply<T = unknown> {
 export class Client {
   private cookie = ''
 
+  /** A reply in JSON is parsed, one in text kept as text, and anything else (a MIDI file, say) is its bytes. */
   async request<T = Record<string, unknown>>(method: string, path: string, body?: unknown, raw?: string | FormData, extraHeaders: Record<string, string> = {}): Promise<Reply<T>> {
     const headers: Record<string, string> = { accept: 'application/json' }
     if (this.cookie) headers.cookie = this.cookie
@@ -62,12 +63,6 @@ export class Client {
     if (file) form.append('file', new Blob([file.bytes as BlobPart]), file.name)
     for (const [name, value] of Object.entries(fields)) form.append(name, value)
     return this.request<T>('POST', path, undefined, form)
-  }
-
-  /** A binary download (a MIDI file), with the session cookie. */
-  async bytes(path: string): Promise<Reply<Uint8Array>> {
-    const res = await fetch(baseUrl() + path, { headers: this.cookie ? { cookie: this.cookie } : {} })
-    return { status: res.status, body: new Uint8Array(await res.arrayBuffer()), headers: res.headers }
   }
 
   async signIn(email: string, password = DEMO_PASSWORD): Promise<this> {

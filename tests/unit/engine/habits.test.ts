@@ -3,12 +3,13 @@
 import { mean } from 'simple-statistics'
 import { describe, expect, it } from 'vitest'
 import { fingerHabits, gradeAttempt, habitStatement, HABIT_TIMING_MS, HABIT_VELOCITY, unplannedShifts, type GradeResult } from '../../../shared/engine'
-import { performDrill, randomSource } from '../../../seeds/demo/performance'
+import { performDrill } from '../../../seeds/demo/performance'
+import { seededRandom } from '../../../shared/utils/random'
 import { drills } from '../../../seeds/demo/studio'
 
 /** A student who leans on `accent` plays every right-hand drill of the demo a few times. */
 function seededResults(accent: number, seed: number): (GradeResult & { drillId: number })[] {
-  const random = randomSource(seed)
+  const random = seededRandom(seed)
   const results: (GradeResult & { drillId: number })[] = []
   drills.filter(d => d.hand === 'right').forEach((drill, drillId) => {
     for (let k = 0; k < 4; k++) {

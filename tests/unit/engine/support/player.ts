@@ -21,6 +21,7 @@
 // motion and the key colours are the same), two octaves lower.
 import type { Finger, Hand } from '../../../../shared/engine/types'
 import type { PerformedNote } from '../../../../shared/engine/infer'
+import { gaussian, seededRandom } from '../../../../shared/utils/random'
 
 export type Move = 'inPosition' | 'crossing' | 'sameFinger' | 'lift'
 export type Category = 'scale' | 'fiveFinger' | 'sequence' | 'passage'
@@ -57,24 +58,7 @@ export interface Performance {
   moves: Move[]
 }
 
-/** A seeded generator (mulberry32), so that every run plays the same performances. */
-export function seeded(seed: number): () => number {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6D2B79F5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
-
 const uniform = (random: () => number, low: number, high: number): number => low + (high - low) * random()
-
-/** A standard normal draw (Box–Muller). */
-function gaussian(random: () => number): number {
-  return Math.sqrt(-2 * Math.log(1 - random())) * Math.cos(2 * Math.PI * random())
-}
 
 /** The move into note i, judged from the fingering the player uses (right-hand space). */
 export function moveInto(figure: Figure, i: number): Move {
@@ -97,7 +81,7 @@ export interface PlayOptions {
 
 /** One performance of a figure by the model player. */
 export function perform(figure: Figure, options: PlayOptions): Performance {
-  const random = seeded(options.seed)
+  const random = seededRandom(options.seed)
   const n = figure.midi.length
   const lengths = figure.beats ?? figure.midi.map(() => 0.5)
   const msPerBeat = 60000 / options.bpm
