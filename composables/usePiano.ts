@@ -117,6 +117,18 @@ export function usePiano() {
   return { enabled, loaded: readonly(loaded), progress: readonly(progress), failed: readonly(failed), noteOn, playAt, noteOff, sustain, releaseAll, load }
 }
 
+/** A key going down (lit in `pressed` and sounded on the piano) or up (let go). */
+export function playKey(piano: Pick<ReturnType<typeof usePiano>, 'noteOn' | 'noteOff'>, pressed: Set<number>, e: { note: number, on: boolean, velocity: number }): void {
+  if (e.on) {
+    pressed.add(e.note)
+    piano.noteOn(e.note, e.velocity)
+  }
+  else {
+    pressed.delete(e.note)
+    piano.noteOff(e.note)
+  }
+}
+
 /** tone reads a bare number as a frequency in Hz, so notes go in by name (`C#4`). */
 function noteName(midi: number): string {
   return Midi.midiToNoteName(midi, { sharps: true })

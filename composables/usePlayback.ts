@@ -4,6 +4,8 @@
 //   playback.pressed – the keys down now (a reactive Set, as KeyboardView takes it)
 //   playback.startedAt – performance.now() at time zero of the running playback, for tests
 // One timer waits for the next due event, so a key lights within a few ms of its time.
+import { midiFromName, type DrillNote } from '#shared/engine'
+
 export interface TimedNote {
   midi: number
   onMs: number
@@ -12,6 +14,15 @@ export interface TimedNote {
 }
 
 interface Step { at: number, midi: number, on: boolean, velocity: number }
+
+/** A velocity for drill notes: mezzo-forte, like the engine's MIDI export of a drill. */
+const DRILL_VELOCITY = 80
+
+/** A drill's notes as they sound at its tempo, from its first beat. */
+export function drillTimedNotes(notes: readonly DrillNote[], tempoBpm: number): TimedNote[] {
+  const msPerBeat = 60_000 / tempoBpm
+  return notes.map(n => ({ midi: midiFromName(n.pitch), onMs: n.beat * msPerBeat, offMs: (n.beat + n.length) * msPerBeat, velocity: DRILL_VELOCITY }))
+}
 
 export function usePlayback() {
   const piano = usePiano()
@@ -46,14 +57,7 @@ export function usePlayback() {
       const now = performance.now() - zero
       while (next < steps.length && steps[next]!.at <= now + 1) {
         const s = steps[next++]!
-        if (s.on) {
-          pressed.add(s.midi)
-          piano.noteOn(s.midi, s.velocity)
-        }
-        else {
-          pressed.delete(s.midi)
-          piano.noteOff(s.midi)
-        }
+        playKey(piano, pressed, { note: s.midi, on: s.on, velocity: s.velocity })
       }
       if (next >= steps.length) {
         playing.value = false

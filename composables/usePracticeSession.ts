@@ -245,14 +245,7 @@ export function usePracticeSession(options: PracticeSessionOptions) {
   // Only the key and its sound belong to the note's own frame; what else the note changes waits for
   // that frame to be drawn (showStep), and the recording is a plain push that nothing renders.
   function onNote(e: LiveNoteEvent): void {
-    if (e.on) {
-      pressed.add(e.note)
-      piano.noteOn(e.note, e.velocity)
-    }
-    else {
-      pressed.delete(e.note)
-      piano.noteOff(e.note)
-    }
+    playKey(piano, pressed, e)
     const phase = state.value.phase
     if (phase === 'counting' || phase === 'playing') {
       store.record(e)

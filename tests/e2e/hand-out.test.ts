@@ -3,7 +3,7 @@
 // attempt in the teacher's class table.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { DrillNote } from '../../shared/types/drill'
-import { openBrowser } from '../support/browser'
+import { openBrowser, signUpTeacher } from '../support/browser'
 import type { BrowserSession } from '../support/browser'
 import { fakeMidiScript } from '../support/fake-midi'
 import { linkIn, waitForMail } from '../support/mail'
@@ -33,12 +33,7 @@ describe('handing out a drill set', () => {
     const studentEmail = uniqueEmail('pupil')
 
     // A new teacher opens a studio and makes a drill set from the shared library.
-    await t.goto('/signup')
-    await t.getByLabel('Your name').fill('Ilse Kovač')
-    await t.getByLabel('E-mail').fill(uniqueEmail('studio'))
-    await t.getByLabel('Password').fill('long-enough-1')
-    await t.getByRole('button', { name: 'Open my studio' }).click()
-    await t.waitForURL(/\/teacher$/)
+    await signUpTeacher(t, 'Ilse Kovač')
     await t.getByRole('link', { name: 'Drill sets' }).first().click()
     await t.getByLabel('New drill set').fill('First week')
     await t.getByRole('button', { name: 'Create and add drills' }).click()

@@ -6,6 +6,7 @@ import { chromium } from 'playwright-core'
 import type { BrowserContext, Page } from 'playwright-core'
 import { fakeMidiScript } from './fake-midi'
 import { baseUrl, DEMO_PASSWORD } from './server'
+import { uniqueEmail } from './studio'
 
 export interface BrowserSession {
   context: BrowserContext
@@ -39,6 +40,16 @@ export async function signInAs(page: Page, email: string, password = DEMO_PASSWO
   await page.getByLabel('E-mail').fill(email)
   await page.getByLabel('Password').fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
+}
+
+/** A new teacher's studio, opened through the sign-up page; the page ends on the teacher's home. */
+export async function signUpTeacher(page: Page, name: string): Promise<void> {
+  await page.goto('/signup')
+  await page.getByLabel('Your name').fill(name)
+  await page.getByLabel('E-mail').fill(uniqueEmail('studio'))
+  await page.getByLabel('Password').fill('long-enough-1')
+  await page.getByRole('button', { name: 'Open my studio' }).click()
+  await page.waitForURL(/\/teacher$/)
 }
 
 /**
