@@ -84,6 +84,8 @@ export class World {
   /** Someone every caller may sign in as. */
   loginEmail = ''
   private drill!: DrillReply
+  /** The hash of TEST_PASSWORD every caller starts with. */
+  private passwordHash = ''
 
   static async build(): Promise<World> {
     const w = new World()
@@ -95,6 +97,7 @@ export class World {
     w.accounts = { admin, owner, otherTeacher, ownStudent, classmate, otherStudent }
     for (const [who, account] of Object.entries(w.accounts)) w.clients.set(who as SignedIn, account.client)
     w.loginEmail = login.email
+    w.passwordHash = (await testDb()('users').where({ id: login.id }).first('password_hash')).password_hash
 
     w.className = `Matrix class ${tag}`
     const cls = await ok(owner.client.post<{ id: number, joinCode: string }>('/api/classes', { name: w.className }))
@@ -129,9 +132,11 @@ export class World {
     return caller === 'anonymous' ? new Client() : new Client().signIn(this.accounts[caller].email, TEST_PASSWORD)
   }
 
-  /** After a call that ended every session of the caller. */
+  /** After a call that ended every session of the caller, and may have changed the password (hostile input that was valid). */
   async renewClient(caller: Caller): Promise<void> {
-    if (caller !== 'anonymous') this.clients.set(caller, await this.freshClient(caller))
+    if (caller === 'anonymous') return
+    await testDb()('users').where({ id: this.id(caller) }).update({ password_hash: this.passwordHash })
+    this.clients.set(caller, await this.freshClient(caller))
   }
 
   id(caller: SignedIn): number {
