@@ -117,7 +117,7 @@ export function sequencePeriod(keys: number[]): number {
 }
 
 /** The finger most often used at each phase (ties to the lower finger). */
-function sharedPattern(fingers: Finger[], phases: number[]): Map<number, Finger> {
+export function sharedPattern(fingers: Finger[], phases: number[]): Map<number, Finger> {
   const counts = new Map<number, number[]>()
   phases.forEach((phase, i) => {
     const c = counts.get(phase) ?? [0, 0, 0, 0, 0, 0]

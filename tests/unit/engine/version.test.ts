@@ -16,6 +16,7 @@ const RECORDED: { version: string, digest: string }[] = [
   { version: '1.5.0', digest: '394c5a7dd63437ea' },
   { version: '1.6.0', digest: '0c44a0e501419131' },
   { version: '1.7.0', digest: '1b8aac23af4ecfac' },
+  { version: '1.8.0', digest: '28e74e47d0c228e1' },
 ]
 
 /** A reproducible stream of numbers in [0, 1) (a linear congruential generator). */
@@ -62,6 +63,12 @@ function results(): unknown[] {
     suggestFingering({ hand: 'left', notes: [0, 1, 2, 3, 4].flatMap(g => [scale[g]!, scale[g + 1]!, scale[g + 2]!, scale[g]!].map(m => m - 24)) }),
     // From 1.7.0 on: the left hand's D major arpeggio (3 onto the black third).
     suggestFingering({ hand: 'left', notes: [38, 42, 45, 50, 54, 57, 62, 57, 54, 50, 45, 42, 38] }),
+    // From 1.8.0 on: a left-hand sequence of rising threes, the hand lifted before each group.
+    inferFingering('left', [0, 1, 2, 3, 4].flatMap(g => [scale[g]!, scale[g + 1]!, scale[g + 2]!]).map((m, k) => {
+      const late = 40 * Math.floor(k / 3)
+      const lift = k % 3 === 2 && k < 12
+      return { midi: m - 24, onMs: k * 300 + late, offMs: k * 300 + late + (lift ? 200 : 320), velocity: 64, beat: k / 2 }
+    })),
   ]
 }
 
