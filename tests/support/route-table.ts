@@ -73,6 +73,8 @@ export class World {
   openClassCode = ''
   drillId = 0
   drillTitle = ''
+  /** The other teacher's private drill. */
+  otherDrillId = 0
   /** A demo drill in the shared library, of a teacher who is none of the callers. */
   publicDrillId = 0
   setId = 0
@@ -111,6 +113,7 @@ export class World {
 
     w.drillTitle = `Matrix drill ${tag}`
     w.drillId = (await ok(owner.client.post<{ id: number }>('/api/drills', { ...DRILL, title: w.drillTitle }))).id
+    w.otherDrillId = (await ok(otherTeacher.client.post<{ id: number }>('/api/drills', { ...DRILL, title: `Other drill ${tag}` }))).id
     w.publicDrillId = (await publicDrillIds())[0]!
     w.setTitle = `Matrix set ${tag}`
     w.setId = (await ok(owner.client.post<{ id: number }>('/api/drill-sets', { title: w.setTitle, items: [{ drillId: w.drillId }] }))).id
@@ -316,6 +319,36 @@ export const ROUTES: Record<string, RouteRow> = {
   'PUT /api/students/[id]/guardian': { request: w => ({ path: `/api/students/${w.id('ownStudent')}/guardian`, body: { guardianEmail: 'guardian@example.org' } }), expect: [401, 200, 200, 404, 403, 403, 403] },
   'POST /api/students/[id]/reset-link': { request: w => ({ path: `/api/students/${w.id('ownStudent')}/reset-link` }), expect: [401, 202, 202, 404, 403, 403, 403] },
 }
+
+/** Further cases of some routes, for the matrix only: other resources and targets than the row's own. */
+export const MORE_CASES: { route: string, label: string, row: RouteRow }[] = [
+  // The shared library: anyone signed in reads it, teachers copy from it, nobody but its author changes it.
+  { route: 'GET /api/drills/[id]', label: 'a public drill', row: { request: w => ({ path: `/api/drills/${w.publicDrillId}` }), expect: ANY_SIGNED_IN(200) } },
+  { route: 'PATCH /api/drills/[id]', label: 'a public drill of someone else', row: { request: w => ({ path: `/api/drills/${w.publicDrillId}`, body: { description: 'Mine now.' } }), expect: [401, 403, 403, 403, 403, 403, 403] } },
+  { route: 'POST /api/drills/[id]/archive', label: 'a public drill of someone else', row: { request: w => ({ path: `/api/drills/${w.publicDrillId}/archive` }), expect: [401, 403, 403, 403, 403, 403, 403] } },
+  { route: 'POST /api/drills/[id]/duplicate', label: 'a public drill', row: { request: w => ({ path: `/api/drills/${w.publicDrillId}/duplicate` }), expect: TEACHERS(201) } },
+  { route: 'GET /api/drills/[id]/export.musicxml', label: 'a public drill', row: { request: w => ({ path: `/api/drills/${w.publicDrillId}/export.musicxml` }), expect: ANY_SIGNED_IN(200) } },
+  // Another teacher's private drill is nobody else's to put in a set, to open or to play.
+  { route: 'POST /api/drill-sets', label: 'with the other teacher\'s private drill', row: { request: w => ({ path: '/api/drill-sets', body: { title: 'Borrowed', items: [{ drillId: w.otherDrillId }] } }), expect: [401, 403, 400, 201, 403, 403, 403] } },
+  { route: 'PATCH /api/drill-sets/[id]', label: 'adding the other teacher\'s private drill', row: { request: w => ({ path: `/api/drill-sets/${w.setId}`, body: { items: [{ drillId: w.drillId }, { drillId: w.otherDrillId }] } }), expect: [401, 403, 400, 404, 403, 403, 403] } },
+  { route: 'GET /api/drills/[id]', label: 'the other teacher\'s private drill', row: { request: w => ({ path: `/api/drills/${w.otherDrillId}` }), expect: [401, 200, 404, 200, 404, 404, 404] } },
+  { route: 'POST /api/attempts', label: 'at the other teacher\'s private drill', row: { request: w => ({ path: '/api/attempts', body: { ...w.attemptInput(), drillId: w.otherDrillId, drillVersion: 1, assignmentId: null } }), expect: [401, 403, 403, 403, 404, 404, 404] } },
+  // A teacher gives work only to their own classes and students.
+  { route: 'POST /api/assignments', label: 'to the other teacher\'s class', row: { request: w => ({ path: '/api/assignments', body: { drillSetId: w.setId, classId: w.otherClassId, dueOn: dueIn(3) } }), expect: [401, 403, 404, 404, 403, 403, 403] } },
+  { route: 'POST /api/assignments', label: 'to the other teacher\'s student', row: { request: w => ({ path: '/api/assignments', body: { drillSetId: w.setId, studentId: w.id('otherStudent'), dueOn: dueIn(3) } }), expect: [401, 403, 404, 404, 403, 403, 403] } },
+  { route: 'DELETE /api/classes/[id]/students/[studentId]', label: 'a student of another class', row: { request: w => ({ path: `/api/classes/${w.classId}/students/${w.id('otherStudent')}` }), expect: [401, 403, 404, 404, 403, 403, 403] } },
+  // One student's attempts, asked for by id: a student sees only their own, a teacher only their students'.
+  {
+    route: 'GET /api/attempts',
+    label: 'of the own student',
+    row: {
+      request: w => ({ path: `/api/attempts?student=${w.id('ownStudent')}` }),
+      expect: [401, 200, 200, 200, 200, 403, 403],
+      shows: { text: w => w.attemptId, to: ['admin', 'owner', 'ownStudent'] },
+    },
+  },
+  { route: 'GET /api/students/[id]/progress', label: 'of a student of another teacher', row: { request: w => ({ path: `/api/students/${w.id('otherStudent')}/progress` }), expect: [401, 200, 403, 200, 403, 403, 200] } },
+]
 
 /** Sends a row's request as `client`. */
 export function send(client: Client, route: string, req: RouteRequest): Promise<{ status: number, body: unknown }> {
