@@ -102,6 +102,39 @@ function degreePhases(keys: number[]): number[] | null {
   return degrees.map(d => ((d % DEGREES) + DEGREES) % DEGREES)
 }
 
+/** A stretch of a line that goes one way, from note `from` to note `to` (both included), with its phases. */
+export interface ScaleRun { from: number, to: number, phases: number[], diatonic: boolean }
+
+const MAJOR_SCALE_CLASSES = [0, 2, 4, 5, 7, 9, 11]
+
+/** Whether seven pitch classes are a major scale's (or a mode of one, as the natural minor; the mirror image of one is one too). */
+function isDiatonic(classes: number[]): boolean {
+  if (classes.length !== 7) return false
+  return classes.some(root => MAJOR_SCALE_CLASSES.every(step => classes.includes((root + step) % 12)))
+}
+
+/**
+ * A line whose degrees change key up and down (a melodic minor, scalePhases' degree phases) cut into
+ * the stretches that go one way, each a scale of its own keys with its pitch-class phases; a turn
+ * belongs to both stretches it joins. `diatonic` marks a stretch on a major scale's keys (the natural
+ * minor coming down). Null where the line's own pitch classes serve both ways, or a stretch is no scale.
+ */
+export function scaleRuns(keys: number[]): ScaleRun[] | null {
+  if (Math.max(...keys) - Math.min(...keys) < 12 || classPhases(keys) || !degreePhases(keys)) return null
+  const runs: ScaleRun[] = []
+  let from = 0
+  for (let i = 1; i < keys.length; i++) {
+    const turns = i === keys.length - 1 || Math.sign(keys[i + 1]! - keys[i]!) !== Math.sign(keys[i]! - keys[i - 1]!)
+    if (!turns) continue
+    const run = keys.slice(from, i + 1)
+    const phases = classPhases(run)
+    if (!phases) return null
+    runs.push({ from, to: i, phases, diatonic: isDiatonic(pitchClasses(run)) })
+    from = i
+  }
+  return runs
+}
+
 const pitchClass = (k: number): number => ((k % 12) + 12) % 12
 
 function pitchClasses(keys: number[]): number[] {
@@ -147,6 +180,8 @@ function allowedFinger(keys: number[], free: boolean[], fingerAt: (i: number) =>
 export interface ScaleFingering {
   /** Whether note i may take finger f: its class's finger, or at a free edge an alternative that avoids a crossing. */
   allowed: (i: number, f: Finger) => boolean
+  /** The pattern's finger for note i (its phase's). */
+  finger: (i: number) => Finger
 }
 
 const FINGERS: readonly Finger[] = [1, 2, 3, 4, 5]
@@ -237,7 +272,7 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
   addConventions(windows, keys, phases, kind)
   const pattern = cheapestCycle(windows)
   const fingerAt = (i: number): Finger => pattern[phases[i]!]!
-  return { allowed: (i, f) => allowedFinger(keys, free, fingerAt, i, f, kind) }
+  return { allowed: (i, f) => allowedFinger(keys, free, fingerAt, i, f, kind), finger: fingerAt }
 }
 
 /**

@@ -4,7 +4,7 @@ import { costModel, type CostModel } from './costs'
 import { positionStarts } from './positions'
 import { isBlackKey, keyCenterMm, WHITE_KEY_MM } from './keys'
 import { chosenTouches, lineLattice, withOptionPenalty } from './lattice'
-import { arpeggioPhases, FORBIDDEN, scaleFingering, scalePhases } from './scale'
+import { arpeggioPhases, FORBIDDEN, scaleFingering, scalePhases, scaleRuns, type ScaleFingering, type ScaleRun } from './scale'
 import { itemKeys, itemPitchesLowToHigh, toRightHandSpace, type Touch } from './touches'
 import type { Emphasis, Finger, Hand, LineItem, SuggestInput, SuggestResult } from './types'
 
@@ -146,6 +146,22 @@ function fingersForItems(hand: Hand, items: LineItem[], touches: Touch[][]): (Fi
   })
 }
 
+/**
+ * A melodic minor keeps one finger per degree both ways (`perDegree`) where that puts the thumbs where
+ * the natural minor coming down has them; where it cannot (the right hand's F♯ and C♯ minors, whose
+ * raised sixth going up is a black key under the natural minor's thumb), each way is fingered as a
+ * scale of its own keys (scaleRuns), the turns taking either way's finger. Common practice, from
+ * memory: the printed melodic minors are the harmonic minor's fingering, the thumb moved to the
+ * seventh going up only where the raised sixth is black.
+ */
+function melodicFingering(line: number[], runs: ScaleRun[], perDegree: ScaleFingering, model: CostModel): (i: number, f: Finger) => boolean {
+  const fingerings = runs.map(run => scaleFingering(line.slice(run.from, run.to + 1), run.phases, model, 'scale'))
+  const thumbsKept = runs.every((run, r) => !run.diatonic
+    || line.slice(run.from, run.to + 1).every((_, j) => (fingerings[r]!.finger(j) === 1) === (perDegree.finger(run.from + j) === 1)))
+  if (thumbsKept) return perDegree.allowed
+  return (i, f) => runs.some((run, r) => i >= run.from && i <= run.to && fingerings[r]!.allowed(i - run.from, f))
+}
+
 export function suggestFingering(input: SuggestInput): SuggestResult {
   const { hand, notes, handSize = 'medium', emphasis } = input
   const keys = notes.map(item => itemKeys(hand, item))
@@ -167,7 +183,9 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
   let path: number[]
   if (line && phases) {
     // A scale or an arpeggio: one finger per pitch class, the pattern chosen by search over the whole run (scale.ts).
-    const { allowed } = scaleFingering(line, phases, costModel(handSize), scale ? 'scale' : 'arpeggio')
+    const fingering = scaleFingering(line, phases, costModel(handSize), scale ? 'scale' : 'arpeggio')
+    const runs = scale ? scaleRuns(line) : null
+    const allowed = runs ? melodicFingering(line, runs, fingering, costModel(handSize)) : fingering.allowed
     path = cheapestPath(withPenalty(lattice, (i, f) => (allowed(i, f) ? 0 : FORBIDDEN))).path
   }
   else if (broken) {

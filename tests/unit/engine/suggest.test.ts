@@ -3,17 +3,23 @@ import { scoreFingering } from '../../../shared/engine/ergonomics'
 import { scalePhases } from '../../../shared/engine/scale'
 import { sequencePeriod, suggestFingering } from '../../../shared/engine/suggest'
 import type { Finger } from '../../../shared/engine/types'
-import { HARMONIC_MINOR_SCALE_FINGERINGS, MAJOR_SCALE_FINGERINGS, MELODIC_MINOR_SCALE_FINGERINGS, scaleCase, scaleNotes } from './fixtures/scales'
+import { HARMONIC_MINOR_SCALE_FINGERINGS, MAJOR_SCALE_FINGERINGS, MELODIC_MINOR_SCALE_FINGERINGS, printedFingers, scaleCase, scaleNotes, type ScaleFingering } from './fixtures/scales'
 
 const SCALES = [...MAJOR_SCALE_FINGERINGS, ...HARMONIC_MINOR_SCALE_FINGERINGS, ...MELODIC_MINOR_SCALE_FINGERINGS]
 
 const SCALE_CASES = SCALES.flatMap(scale =>
   (['right', 'left'] as const).flatMap(hand => ([1, 2] as const).map(octaves => ({ scale, hand, octaves, name: `${scale.key} ${hand} ${octaves}` }))))
 
+/** The row's fingers over `octaves`, with each start and top note the books also print. */
+function printedVariants(scale: ScaleFingering, hand: 'right' | 'left', octaves: number): Finger[][] {
+  const starts = hand === 'right' ? scale.rightStartAlternatives ?? [] : []
+  const tops = hand === 'right' ? scale.rightTopAlternatives ?? [] : []
+  const rows = [undefined, ...starts].map(first => printedFingers(scale, hand, octaves, first))
+  return [...rows, ...rows.flatMap(row => tops.map(top => row.map((f, i) => (i === 7 * octaves ? top : f))))]
+}
+
 function printedFingerings(c: (typeof SCALE_CASES)[number]): Finger[][] {
-  const { fingers } = scaleCase(c.scale, c.hand, c.octaves)
-  const alternatives = c.hand === 'right' ? c.scale.rightStartAlternatives ?? [] : []
-  return [fingers, ...alternatives.map(f => [f, ...fingers.slice(1, -1), f])]
+  return printedVariants(c.scale, c.hand, c.octaves)
 }
 
 // Every row of fixtures/scales.ts (common practice, from memory; see its header), each hand, one and
@@ -40,13 +46,7 @@ const LONG_CASES = SCALES.flatMap(scale =>
   (['right', 'left'] as const).flatMap(hand => [3, 4].map(octaves => ({ scale, hand, octaves, name: `${scale.key} ${hand} ${octaves}` }))))
 
 function longCase(c: (typeof LONG_CASES)[number]): { notes: number[], printed: Finger[][] } {
-  const two = c.hand === 'left' ? c.scale.left : c.scale.right
-  const starts = [two[0]!, ...(c.hand === 'right' ? c.scale.rightStartAlternatives ?? [] : [])]
-  const printed = starts.map((first) => {
-    const upFingers = [first, ...two.slice(1, 7), ...Array.from({ length: c.octaves - 1 }, () => two.slice(7, 14)).flat(), two[14]!]
-    return [...upFingers, ...upFingers.slice(0, -1).reverse()]
-  })
-  return { notes: scaleNotes(c.scale, c.scale.tonic - (c.hand === 'left' ? 24 : 12), c.octaves), printed }
+  return { notes: scaleNotes(c.scale, c.scale.tonic - (c.hand === 'left' ? 24 : 12), c.octaves), printed: printedVariants(c.scale, c.hand, c.octaves) }
 }
 
 describe('major and minor scales over three and four octaves', () => {

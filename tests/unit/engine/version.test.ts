@@ -17,6 +17,7 @@ const RECORDED: { version: string, digest: string }[] = [
   { version: '1.6.0', digest: '0c44a0e501419131' },
   { version: '1.7.0', digest: '1b8aac23af4ecfac' },
   { version: '1.8.0', digest: '28e74e47d0c228e1' },
+  { version: '1.9.0', digest: '8c6fe419a478f021' },
 ]
 
 /** A reproducible stream of numbers in [0, 1) (a linear congruential generator). */
@@ -69,6 +70,8 @@ function results(): unknown[] {
       const lift = k % 3 === 2 && k < 12
       return { midi: m - 24, onMs: k * 300 + late, offMs: k * 300 + late + (lift ? 200 : 320), velocity: 64, beat: k / 2 }
     })),
+    // From 1.9.0 on: F♯ melodic minor, right hand, one octave up and down (the thumb moves with the way).
+    suggestFingering({ hand: 'right', notes: [66, 68, 69, 71, 73, 75, 77, 78, 76, 74, 73, 71, 69, 68, 66] }),
   ]
 }
 
