@@ -17,7 +17,7 @@ interface AxeViolation { id: string, impact: string | null, help: string, nodes:
 let teacher: BrowserSession
 let student: BrowserSession
 let anonymous: BrowserSession
-let paths: { classId: number, attemptId: string, drillId: number, setId: number }
+let paths: { classId: number, attemptId: string, drillId: number, ownDrillId: number, setId: number }
 
 beforeAll(async () => {
   const db = testDb()
@@ -25,7 +25,8 @@ beforeAll(async () => {
   const attempt = await db('attempts').where({ student_id: noor.id }).orderBy('created_at', 'desc').first('id', 'drill_id')
   const klass = await db('classes').where({ name: 'Tuesday Starters' }).first('id')
   const set = await db('drill_sets').orderBy('id').first('id')
-  paths = { classId: Number(klass.id), attemptId: String(attempt.id), drillId: Number(attempt.drill_id), setId: Number(set.id) }
+  const own = await db('drills as d').join('users as u', 'u.id', 'd.owner_id').where('u.email', 'teacher@evenhand.test').orderBy('d.id').first('d.id')
+  paths = { classId: Number(klass.id), attemptId: String(attempt.id), drillId: Number(attempt.drill_id), ownDrillId: Number(own.id), setId: Number(set.id) }
   ;[teacher, student, anonymous] = await Promise.all([openBrowser(), openBrowser(), openBrowser()])
   await signInAs(teacher.page, 'teacher@evenhand.test')
   await teacher.page.waitForURL(/\/teacher$/)
@@ -63,6 +64,10 @@ describe('every page passes axe-core in light and dark', () => {
     ['teacher home', () => teacher, '/teacher'],
     ['classes', () => teacher, '/teacher/classes'],
     ['a class', () => teacher, `/teacher/classes/${paths.classId}`],
+    ['drill library', () => teacher, '/teacher/drills'],
+    ['a drill', () => teacher, `/teacher/drills/${paths.drillId}`],
+    ['drill editor', () => teacher, '/teacher/drills/new'],
+    ['drill editor, editing', () => teacher, `/teacher/drills/new?edit=${paths.ownDrillId}`],
     ['drill sets', () => teacher, '/teacher/sets'],
     ['a drill set', () => teacher, `/teacher/sets/${paths.setId}`],
     ['attempt, as the teacher', () => teacher, `/attempts/${paths.attemptId}`],
@@ -87,7 +92,7 @@ describe('every page passes axe-core in light and dark', () => {
         checked.push(name)
         failures.push(...describeViolations(await violations(page)).map(f => `${name}: ${f}`))
       }
-      expect(checked).toHaveLength(18)
+      expect(checked).toHaveLength(22)
       expect(failures).toEqual([])
     })
   }
