@@ -57,7 +57,7 @@ export const hostileValue: fc.Arbitrary<unknown> = fc.oneof(
 )
 
 export type Mutation =
-  | { kind: 'field', pick: number, shallow: boolean, value: unknown }
+  | { kind: 'field', pick: number, shallow: boolean, value: unknown, alike?: number }
   | { kind: 'key', pick: number, key: string, value: unknown }
   | { kind: 'body', value: unknown }
   | { kind: 'raw', text: string }
@@ -69,7 +69,7 @@ export type Mutation =
 const param = fc.record({ kind: fc.constant('param' as const), pick: fc.nat(), value: hostileString })
 const query = fc.record({ kind: fc.constant('query' as const), key: fc.oneof(fc.constantFrom(...QUERY_KEYS), fc.string({ maxLength: 8 }), fc.constant('drill[gt]')), values: fc.array(hostileString, { minLength: 1, maxLength: 3 }) })
 const body = fc.oneof(
-  { weight: 4, arbitrary: fc.record({ kind: fc.constant('field' as const), pick: fc.nat(), shallow: fc.boolean(), value: hostileValue }) },
+  { weight: 4, arbitrary: fc.record({ kind: fc.constant('field' as const), pick: fc.nat(), shallow: fc.boolean(), value: hostileValue, alike: fc.option(fc.nat(), { nil: undefined }) }) },
   { weight: 2, arbitrary: fc.record({ kind: fc.constant('key' as const), pick: fc.nat(), key: fc.constantFrom(...POLLUTING_KEYS, ...CLAIM_KEYS), value: hostileValue }) },
   { weight: 1, arbitrary: fc.record({ kind: fc.constant('body' as const), value: hostileValue }) },
   { weight: 1, arbitrary: fc.record({ kind: fc.constant('raw' as const), text: fc.oneof(fc.constantFrom('{', '{"a":', '[1,2', 'null', '"text"', '{"__proto__":{"role":"admin"}}', '{"a":1}{"b":2}', '\uFEFF{}', 'NaN'), fc.string({ maxLength: 50 })) }) },
@@ -87,10 +87,25 @@ export function mutations(method: string, isUpload: boolean): fc.Arbitrary<Mutat
   return fc.array(fc.oneof(...parts), { minLength: 1, maxLength: 3 })
 }
 
+/**
+ * A hostile value of the same kind as `original`, the `n`th of its kind: a date-time gets a date outside 1970–2038
+ * or no date at all, a number a huge, negative, fractional or number-like one, a text a long or odd one.
+ */
+export function alike(original: unknown, n: number): unknown {
+  const pick = <T>(pool: readonly T[]): T => pool[n % pool.length]!
+  if (typeof original === 'string' && /^\d{4}-\d{2}-\d{2}/.test(original)) return pick(DATES)
+  if (typeof original === 'number') return pick([...NUMBERS, ...NUMBER_LIKE])
+  if (typeof original === 'string') return pick([...UNICODE, ...NUMBER_LIKE, MARKER + 'x'.repeat(10_000)])
+  if (typeof original === 'boolean') return pick(['true', 1, 0, null, 'yes'])
+  if (Array.isArray(original)) return pick([[], [original], Array.from({ length: 20_000 }, () => original[0] ?? 1), {}, null])
+  return pick([null, [], 'text', 0, deep(3000)])
+}
+
 type Path = (string | number)[]
 
-/** Every place inside a JSON value, the value itself first. */
+/** Every place inside a JSON value, the value itself first; not below 20 levels, where an earlier change may have nested thousands. */
 function places(value: unknown, at: Path = []): Path[] {
+  if (at.length >= 20) return [at]
   const inner = Array.isArray(value)
     ? value.flatMap((v, i) => places(v, [...at, i]))
     : value && typeof value === 'object' ? Object.entries(value).flatMap(([k, v]) => places(v, [...at, k])) : []
@@ -137,7 +152,8 @@ export function applyMutations(req: RouteRequest, template: string, list: Mutati
       // Half the time a field of the body itself, which a long list (an attempt's events) would otherwise crowd out.
       const all = places(out.body).filter(at => !m.shallow || at.length === 1)
       const at = all.length ? all[m.pick % all.length]! : []
-      out.body = setAt(out.body, at, m.value)
+      const original = at.reduce<unknown>((n, step) => (n as Record<string | number, unknown>)[step], out.body)
+      out.body = setAt(out.body, at, m.alike === undefined ? m.value : alike(original, m.alike))
     }
     else if (m.kind === 'key') {
       const objects = places(out.body).filter((at) => {
