@@ -29,7 +29,7 @@
 // leave one anyway.
 //
 // A player keeps one fingering for every group of a drill sequence, so a line whose shape repeats three
-// times or more is read with its groups alike where the timing leaves them open (alikeGroups); and as
+// times or more is read with its groups alike where the timing leaves them open (alikePath); and as
 // such a drill lifts the hand at every group, the player's own silence is read without those lifts
 // (centreAndSpread).
 //
@@ -623,19 +623,22 @@ const SEQUENCE_POINTS = 3
 const SEQUENCE_GROUPS = 3
 
 /**
- * The lattice with SEQUENCE_POINTS on every finger of a sequence's note that leaves the finger its
- * place in the group takes most often in the cheapest reading. Only lines of single notes whose shape
- * repeats (sequencePeriod) SEQUENCE_GROUPS times or more are sequences; any other lattice is returned as it is.
+ * The cheapest reading, with SEQUENCE_POINTS on every finger of a sequence's note that leaves the
+ * finger its place in the group takes most often in the cheapest reading without them. Only lines of
+ * single notes whose shape repeats (sequencePeriod) SEQUENCE_GROUPS times or more are sequences. Where
+ * the cheapest reading already gives every group the shared fingering, the points change nothing and
+ * it stands.
  */
-function alikeGroups(lattice: EvidenceLattice, keys: number[][]): EvidenceLattice {
-  if (!keys.every(k => k.length === 1)) return lattice
+function alikePath(lattice: Lattice, keys: number[][]): number[] {
+  const { path } = cheapestPath(lattice)
+  if (!keys.every(k => k.length === 1)) return path
   const period = sequencePeriod(keys.map(k => k[0]!))
-  if (period === 0 || keys.length < SEQUENCE_GROUPS * period) return lattice
-  const fingers = cheapestPath(lattice).path.map(o => (o + 1) as Finger)
+  if (period === 0 || keys.length < SEQUENCE_GROUPS * period) return path
+  const fingers = path.map(o => (o + 1) as Finger)
   const places = fingers.map((_, i) => i % period)
   const pattern = sharedPattern(fingers, places)
-  const penalised = withOptionPenalty(lattice, (i, option) => (option + 1 === pattern.get(places[i]!) ? 0 : SEQUENCE_POINTS))
-  return { ...penalised, lifted: lattice.lifted }
+  if (fingers.every((finger, i) => finger === pattern.get(places[i]!))) return path
+  return cheapestPath(withOptionPenalty(lattice, (i, option) => (option + 1 === pattern.get(places[i]!) ? 0 : SEQUENCE_POINTS))).path
 }
 
 export function inferFingering(hand: Hand, notes: PerformedNote[], handSize: HandSize = 'medium'): InferResult {
@@ -646,12 +649,11 @@ export function inferFingering(hand: Hand, notes: PerformedNote[], handSize: Han
   const keys = items.map(item => item.notes.length === 1 ? [noteKeys[item.notes[0]!]!] : [...new Set(item.notes.map(n => noteKeys[n]!))].sort((a, b) => a - b))
   const model = costModel(handSize, INFERENCE_WEIGHTS)
   const base = lineLattice(keys, model)
-  const evidence = withEvidence(base, model, items, noteKeys, accentsOf(notes))
-  const lattice = alikeGroups(evidence, keys)
-  const { path } = cheapestPath(lattice)
+  const lattice = withEvidence(base, model, items, noteKeys, accentsOf(notes))
+  const path = alikePath(lattice, keys)
   // Confidence is read without the sequence rule: it says how surely the timing and the hand's comfort
   // name a finger, and the rule only chooses among readings they leave open, which makes none surer.
-  const posteriors = optionPosteriors(evidence, TEMPERATURE)
+  const posteriors = optionPosteriors(lattice, TEMPERATURE)
   const chosen = chosenTouches(base, path)
   const fingers: { finger: Finger, confidence: number }[] = new Array(notes.length)
   for (let i = 0; i < items.length; i++) {
