@@ -1,8 +1,9 @@
 import { defineConfig } from 'vitest/config'
 import { defineVitestProject } from '@nuxt/test-utils/config'
 
-// Four projects, cheapest first: the pure engine and utilities, composables in a Nuxt environment,
-// the API against a built server and a real MariaDB, and end-to-end runs in Debian's chromium.
+// Five projects, cheapest first: the pure engine and utilities, composables in a Nuxt environment,
+// the API against a built server and a real MariaDB, end-to-end runs in Debian's chromium, and last,
+// alone, the fault tests that take MariaDB and the network away while attempts are saved.
 export default defineConfig({
   test: {
     projects: [
@@ -30,6 +31,18 @@ export default defineConfig({
           testTimeout: 60_000,
           hookTimeout: 120_000,
           fileParallelism: false,
+        },
+      },
+      {
+        test: {
+          name: 'faults',
+          include: ['tests/faults/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 180_000,
+          hookTimeout: 120_000,
+          fileParallelism: false,
+          // These stop and start the test MariaDB and take the network away: only once every other project is done.
+          sequence: { groupOrder: 1 },
         },
       },
     ],

@@ -50,7 +50,8 @@ function computerKeyFor(midi: number): string {
   return key.code
 }
 
-async function playNotes(page: Page, notes: DrillNote[], beatMs: number, on: PlayedOn): Promise<void> {
+/** Plays the notes now (playing must have started), as `playDrill` does after its count-in. */
+export async function playNotes(page: Page, notes: DrillNote[], beatMs: number, on: PlayedOn): Promise<void> {
   const timed = notes.map(n => ({ note: Note.midi(n.pitch)!, velocity: 72, atMs: n.beat * beatMs, holdMs: n.length * beatMs * 0.92 }))
   if (on === 'midi') {
     await page.evaluate(n => (window as unknown as { __fakeMidi: { play: (n: unknown) => Promise<void> } }).__fakeMidi.play(n), timed)
