@@ -105,9 +105,12 @@ start_mariadb() {
 stop_mariadb() {
   [ -n "${MARIADB_STARTED:-}" ] || return 0
   log "stopping MariaDB"
-  mariadb-admin --no-defaults --socket="$MARIADB_SOCKET" -uroot shutdown >/dev/null 2>&1 || kill "$MARIADB_STARTED" 2>/dev/null
+  # The server running now: the one started here, or the one a fault test started again in its place.
+  local pid
+  pid="$(cat "$MARIADB_PIDFILE" 2>/dev/null || echo "$MARIADB_STARTED")"
+  mariadb-admin --no-defaults --socket="$MARIADB_SOCKET" -uroot shutdown >/dev/null 2>&1 || kill "$pid" 2>/dev/null
   # The pid file goes before the process ends, so wait on the process itself.
-  for _ in $(seq 1 100); do kill -0 "$MARIADB_STARTED" 2>/dev/null || break; sleep 0.1; done
+  for _ in $(seq 1 300); do kill -0 "$pid" 2>/dev/null || break; sleep 0.1; done
   MARIADB_STARTED=""
 }
 

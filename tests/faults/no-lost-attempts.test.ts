@@ -23,7 +23,11 @@ beforeAll(async () => {
   browser = await openStudentWithFakeMidi()
 })
 // A case that failed leaves its attempt behind; the next case starts from an empty outbox all the same.
+// The app is left first (a live outbox would write its entries back), then the storage is emptied on a
+// page of the same origin that runs none of the app's scripts.
 afterEach(async () => {
+  await browser.page.goto('about:blank')
+  await browser.page.goto('/api/health')
   await browser.page.evaluate(() => Object.keys(localStorage).filter(k => k.startsWith('evenhand.outbox.')).forEach(k => localStorage.removeItem(k)))
 })
 afterAll(async () => {

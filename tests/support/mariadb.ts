@@ -67,5 +67,6 @@ export async function startTestMariadb(server: TestMariadb): Promise<TestMariadb
   const child = spawn(server.argv[0]!, server.argv.slice(1), { detached: true, stdio: 'ignore' })
   child.unref()
   await until('MariaDB accepts connections again', () => accepts(server.port), 60_000)
-  return testMariadb()
+  // Its pid file may come later than its port; the child's pid is the server's own.
+  return { ...server, pid: child.pid! }
 }
