@@ -82,6 +82,8 @@ export class World {
   assignmentId = 0
   attemptId = ''
   invitationId = 0
+  /** The owner's comment on that attempt. */
+  commentText = ''
   mailId = ''
   /** Someone every caller may sign in as. */
   loginEmail = ''
@@ -120,6 +122,8 @@ export class World {
     w.assignmentId = await w.freshAssignment()
     w.drill = await ok(ownStudent.client.get<DrillReply>(`/api/drills/${w.drillId}`))
     w.attemptId = (await ok(ownStudent.client.post<{ attempt: { id: string } }>('/api/attempts', w.attemptInput()))).attempt.id
+    w.commentText = `Matrix comment ${tag}`
+    await ok(owner.client.post(`/api/attempts/${w.attemptId}/comments`, { body: w.commentText }))
     w.invitationId = await w.freshInvitation()
     w.mailId = await firstMail(admin.client)
     return w
@@ -310,10 +314,18 @@ export const ROUTES: Record<string, RouteRow> = {
   'GET /api/attempts/[id]/export.mid': { request: w => ({ path: `/api/attempts/${w.attemptId}/export.mid` }), expect: STUDENT_RECORD(200) },
   'POST /api/attempts/[id]/comments': { request: w => ({ path: `/api/attempts/${w.attemptId}/comments`, body: { body: 'Lovely even quavers.' } }), expect: OWNER_ONLY(201) },
   'POST /api/attempts/[id]/comments/read': { request: w => ({ path: `/api/attempts/${w.attemptId}/comments/read` }), expect: [401, 403, 403, 403, 200, 404, 404] },
-  'GET /api/me/comments': { request: () => ({ path: '/api/me/comments' }), expect: STUDENTS(200) },
+  'GET /api/me/comments': {
+    request: () => ({ path: '/api/me/comments' }),
+    expect: STUDENTS(200),
+    shows: { text: w => w.commentText, to: ['ownStudent'] },
+  },
 
   // One student's progress, habits and account, for their teacher.
-  'GET /api/me/progress': { request: () => ({ path: '/api/me/progress' }), expect: STUDENTS(200) },
+  'GET /api/me/progress': {
+    request: () => ({ path: '/api/me/progress' }),
+    expect: STUDENTS(200),
+    shows: { text: w => w.drillTitle, to: ['ownStudent'] },
+  },
   'GET /api/students/[id]/progress': { request: w => ({ path: `/api/students/${w.id('ownStudent')}/progress` }), expect: [401, 200, 200, 403, 200, 403, 403] },
   'GET /api/students/[id]/habits': { request: w => ({ path: `/api/students/${w.id('ownStudent')}/habits` }), expect: [401, 200, 200, 403, 200, 403, 403] },
   'PUT /api/students/[id]/guardian': { request: w => ({ path: `/api/students/${w.id('ownStudent')}/guardian`, body: { guardianEmail: 'guardian@example.org' } }), expect: [401, 200, 200, 404, 403, 403, 403] },
