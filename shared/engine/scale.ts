@@ -1,7 +1,7 @@
 // The fingering of a scale run: one finger per pitch class, chosen by search over the whole line.
 import type { CostModel } from './costs'
 import { isBlackKey } from './keys'
-import type { Finger } from './types'
+import type { Finger, Hand } from './types'
 
 /**
  * Points for every note of the run that a pattern plays against one of the scale conventions below.
@@ -196,7 +196,7 @@ type Cost = (finger: (i: number) => Finger) => number
  * its neighbours' pattern), so the search is a second-order chain around the circle of phases:
  * exact over all 5^m patterns at a cost of about 25 · m · 125 steps after one pass over the line.
  */
-export function scaleFingering(keys: number[], phases: number[], model: CostModel, kind: RunKind = 'scale'): ScaleFingering {
+export function scaleFingering(keys: number[], phases: number[], model: CostModel, kind: RunKind = 'scale', hand: Hand = 'right'): ScaleFingering {
   const m = Math.max(...phases) + 1
   const free = freeEdges(keys)
   // windows[c][(a · 5 + b) · 5 + d]: costs that depend on the fingers a, b, d of phases c − 1, c, c + 1.
@@ -269,7 +269,7 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
     count(shape, notes, finger => group.costs.reduce((sum, cost) => sum + cost(finger), 0))
   }
   for (const { notes, cost, count } of repeated.values()) addTerm(notes, finger => count * cost(finger))
-  addConventions(windows, keys, phases, kind)
+  addConventions(windows, keys, phases, kind, hand)
   const pattern = cheapestCycle(windows)
   const fingerAt = (i: number): Finger => pattern[phases[i]!]!
   return { allowed: (i, f) => allowedFinger(keys, free, fingerAt, i, f, kind), finger: fingerAt }
@@ -284,23 +284,29 @@ export function scaleFingering(keys: number[], phases: number[], model: CostMode
 const PASS_UNDER_THREE = 5
 
 /**
- * The finger the thumb passes under into `phase` of an arpeggio (pitch classes `classes`, ascending):
- * 3 across a fourth, 4 across a third, but 3 across a third onto a black key where 2 and 3 span the
- * gap above the thumb's next finger (a triad, the step from 2's key to the passing key at most a major
- * third) and the thumb sits on a white key or passes a major third. Common practice, from memory: the
- * longer third finger crosses to a black key, as in the left hand's D, A, E and B majors and C, F and
- * G minors (5 3 2 1), the right hand's B♭ minor (2 3 1 2) and the left hand's G♭ major; where 2 and the
- * passing key are a fourth apart (the right hand's D♭, A♭ and E♭ majors, 4 1 2 4) or the thumb on a
- * black key passes only a minor third (the left hand's E♭ minor, 5 4 2 1) it stays 4.
+ * The finger the thumb passes under into `phase` of an arpeggio (pitch classes `classes`, ascending, in
+ * right-hand space): 3 across a fourth, 4 across a third, except in a triad where the passing key is
+ * black and 2 and it are at most a major third apart, which takes the longer 3 in two cases. Common
+ * practice, from memory:
+ * - the left hand crosses 3 over the thumb onto a black key where the thumb is on a white key, or the
+ *   thumb on a black key passes a major third: 5 3 2 1 in D, A, E, B and G♭ major and C, F and G minor,
+ *   against 5 4 2 1 where that key is white (C, G, F major; A, E, D minor) and in E♭ minor (all black,
+ *   a minor third);
+ * - the right hand passes under 3 from a black key onto a white one where 2 is on a black key too, the
+ *   two side by side on black keys (B♭ minor's 2 3 1 2); where 2 is on a white key its inversions keep
+ *   1 2 4 5, and where 2 and the passing key are a fourth apart (D♭, A♭ and E♭ major, 4 1 2 4) it stays 4.
  */
-function arpeggioPassFinger(classes: number[], phase: number): Finger {
+function arpeggioPassFinger(classes: number[], phase: number, hand: Hand): Finger {
   const m = classes.length
   const at = (p: number): number => classes[(p + m) % m]!
   const passing = (at(phase) - at(phase - 1) + 12) % 12
   if (passing >= PASS_UNDER_THREE) return 3
   const reach = (at(phase - 1) - at(phase + 1) + 12) % 12
-  const ontoBlack = isBlackKey(at(phase - 1)) && (!isBlackKey(at(phase)) || passing >= MAJOR_THIRD)
-  return m === 3 && reach < PASS_UNDER_THREE && ontoBlack ? 3 : 4
+  if (m !== 3 || reach >= PASS_UNDER_THREE || !isBlackKey(at(phase - 1))) return 4
+  const ontoBlack = hand === 'left'
+    ? !isBlackKey(at(phase)) || passing >= MAJOR_THIRD
+    : !isBlackKey(at(phase)) && isBlackKey(at(phase + 1))
+  return ontoBlack ? 3 : 4
 }
 
 const MAJOR_THIRD = 4
@@ -318,7 +324,8 @@ const MAJOR_THIRD = 4
  *   F); the span rules alone would let the left hand cross 4 before the fifth degree in long runs;
  * - between thumbs the fingers follow one another (1 2 3, 1 2 3 4), never skipping one, which the span
  *   rules would trade at the harmonic minor's augmented second (4 then 2 in the left hand).
- * An arpeggio keeps the thumb off black keys and on its first class when white, as a scale does, takes
+ * An arpeggio keeps the thumb off black keys and on its first class when white (or when every key is
+ * black: such an arpeggio takes a white-key arpeggio's fingering, common practice), as a scale does, takes
  * no gap rule (1 2 4 is its usual shape), and passes the thumb under 3 or 4 by the width of the pass
  * and the colour of the key it passes from (arpeggioPassFinger).
  * A chromatic run (all twelve classes) has no keynote to meet on; instead every black key takes 3
@@ -326,7 +333,7 @@ const MAJOR_THIRD = 4
  * the white ones, 2 where two white keys meet), which the span rules alone, counting thumb passes,
  * would trade for 4s.
  */
-function addConventions(windows: Float64Array[], keys: number[], phases: number[], kind: RunKind): void {
+function addConventions(windows: Float64Array[], keys: number[], phases: number[], kind: RunKind, hand: Hand): void {
   const m = windows.length
   const chromatic = m === 12
   // Per phase, how many of its notes fall on white keys and on black ones: a melodic minor's degree
@@ -341,10 +348,12 @@ function addConventions(windows: Float64Array[], keys: number[], phases: number[
     ? phases[keys.findIndex(k => pitchClass(k) === fourthClass)] ?? -1
     : -1
   const classes = pitchClasses(keys)
+  // An arpeggio on black keys only (E♭ minor, G♯ major) is fingered as a white-key one, the thumb on its first note.
+  const allBlack = kind === 'arpeggio' && classes.every(isBlackKey)
   for (let phase = 0; phase < m; phase++) {
     const notes = white[phase]! + black[phase]!
     // The arpeggio's thumb passing into this phase: from the class below, a third or a fourth away.
-    const passFinger = kind === 'arpeggio' ? arpeggioPassFinger(classes, phase) : 0
+    const passFinger = kind === 'arpeggio' ? arpeggioPassFinger(classes, phase, hand) : 0
     const below = (phase + m - 1) % m
     const fromWhite = white[below]! / (white[below]! + black[below]!)
     const window = windows[phase]!
@@ -360,7 +369,7 @@ function addConventions(windows: Float64Array[], keys: number[], phases: number[
         if (finger !== 3) points += CONVENTION_POINTS * black[phase]!
       }
       else if (!thumb && (phase === keynote || phase === fourth)) {
-        points += CONVENTION_POINTS * white[phase]!
+        points += CONVENTION_POINTS * (allBlack ? notes : white[phase]!)
       }
       window[j] = window[j]! + points
     }

@@ -183,7 +183,7 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
   let path: number[]
   if (line && phases) {
     // A scale or an arpeggio: one finger per pitch class, the pattern chosen by search over the whole run (scale.ts).
-    const fingering = scaleFingering(line, phases, costModel(handSize), scale ? 'scale' : 'arpeggio')
+    const fingering = scaleFingering(line, phases, costModel(handSize), scale ? 'scale' : 'arpeggio', hand)
     const runs = scale ? scaleRuns(line) : null
     const allowed = runs ? melodicFingering(line, runs, fingering, costModel(handSize)) : fingering.allowed
     path = cheapestPath(withPenalty(lattice, (i, f) => (allowed(i, f) ? 0 : FORBIDDEN))).path

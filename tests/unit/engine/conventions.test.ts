@@ -29,7 +29,7 @@ const DIMINISHED_SEVENTH = [0, 3, 6, 9]
 // checked against a particular book.
 // Families: white roots 1 2 3 5 in the right hand (the thumb passes under 3 across the fourth), the
 // left hand 5 4 2 1 where the third is white and 5 3 2 1 where it is black (the longer 3 crosses to
-// the black key); black roots of major triads 4 1 2 4 / 2 1 4 2; inversions 1 2 4 5 (under 4 across
+// the black key); all-black triads as white-key ones; black roots of major triads 4 1 2 4 / 2 1 4 2; inversions 1 2 4 5 (under 4 across
 // the third), the left hand's second inversion 5 3 2 1 (over a fourth); seventh chords 1 2 3 4 /
 // 5 4 3 2 1. Among the black-key minors, E♭ minor (all black keys) takes the white-key shape with the
 // left hand's 4 (5 4 2 1) and B♭ minor puts the thumbs on F (2 3 1 2 / 3 2 1 3), from memory.
@@ -50,11 +50,15 @@ const ARPEGGIOS: [string, number[], number, string, string][] = [
   ['G minor', MINOR, 67, '1231235', '5321321'],
   ['B♭ minor', MINOR, 70, '2312312', '3213213'],
   ['E♭ minor', MINOR, 63, '1231235', '5421421'],
+  // All black keys, fingered as a white-key arpeggio (the chart named above prints G♭ major so).
+  ['G♭ major', MAJOR, 66, '1231235', '5321321'],
   ['D♭ major', MAJOR, 61, '4124124', '2142142'],
   ['A♭ major', MAJOR, 68, '4124124', '2142142'],
   ['E♭ major', MAJOR, 63, '4124124', '2142142'],
   ['C major, first inversion', FIRST_INVERSION, 60, '1241245', '5421421'],
   ['C major, second inversion', SECOND_INVERSION, 60, '1241245', '5321321'],
+  // The right hand's inversions keep 1 2 4 5 where the black key under the top is reached from a white 2.
+  ['D major, second inversion', SECOND_INVERSION, 62, '1241245', '5321321'],
   ['G dominant seventh', DOMINANT_SEVENTH, 67, '123412345', '543214321'],
   ['C diminished seventh', DIMINISHED_SEVENTH, 60, '123412345', '543214321'],
 ]

@@ -18,6 +18,7 @@ const RECORDED: { version: string, digest: string }[] = [
   { version: '1.7.0', digest: '1b8aac23af4ecfac' },
   { version: '1.8.0', digest: '28e74e47d0c228e1' },
   { version: '1.9.0', digest: '8c6fe419a478f021' },
+  { version: '1.10.0', digest: '63e9ffe254575302' },
 ]
 
 /** A reproducible stream of numbers in [0, 1) (a linear congruential generator). */
@@ -72,6 +73,9 @@ function results(): unknown[] {
     })),
     // From 1.9.0 on: F♯ melodic minor, right hand, one octave up and down (the thumb moves with the way).
     suggestFingering({ hand: 'right', notes: [66, 68, 69, 71, 73, 75, 77, 78, 76, 74, 73, 71, 69, 68, 66] }),
+    // From 1.10.0 on: D major's second inversion, right hand (1 2 4 5), and E♭ minor, right hand (all black).
+    suggestFingering({ hand: 'right', notes: [69, 74, 78, 81, 86, 90, 93, 90, 86, 81, 78, 74, 69] }),
+    suggestFingering({ hand: 'right', notes: [63, 66, 70, 75, 78, 82, 87, 82, 78, 75, 70, 66, 63] }),
   ]
 }
 
