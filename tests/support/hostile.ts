@@ -61,6 +61,7 @@ export type Mutation =
   | { kind: 'key', pick: number, key: string, value: unknown }
   | { kind: 'body', value: unknown }
   | { kind: 'raw', text: string }
+  | { kind: 'type', value: string }
   | { kind: 'param', pick: number, value: string }
   | { kind: 'query', key: string, values: string[] }
   | { kind: 'file', name: string, bytes: Uint8Array, cut: number }
@@ -74,6 +75,8 @@ const body = fc.oneof(
   { weight: 1, arbitrary: fc.record({ kind: fc.constant('body' as const), value: hostileValue }) },
   { weight: 1, arbitrary: fc.record({ kind: fc.constant('raw' as const), text: fc.oneof(fc.constantFrom('{', '{"a":', '[1,2', 'null', '"text"', '{"__proto__":{"role":"admin"}}', '{"a":1}{"b":2}', '\uFEFF{}', 'NaN'), fc.string({ maxLength: 50 })) }) },
 )
+/** The body's declared type: a form or text a cross-site page could send, or JSON in another character set. */
+const contentType = fc.record({ kind: fc.constant('type' as const), value: fc.constantFrom('application/x-www-form-urlencoded', 'text/plain', 'multipart/form-data; boundary=x', 'application/json; charset=utf-16', 'application/xml', 'application/json, text/plain', '') })
 const upload = fc.oneof(
   fc.record({ kind: fc.constant('file' as const), name: hostileString.map(s => s.slice(0, 300)), bytes: fc.uint8Array({ maxLength: 4096 }), cut: fc.nat() }),
   fc.record({ kind: fc.constant('form' as const), key: fc.constantFrom(...FIELD_KEYS), value: hostileString }),
@@ -83,7 +86,7 @@ const upload = fc.oneof(
 export function mutations(method: string, isUpload: boolean): fc.Arbitrary<Mutation[]> {
   const parts: fc.Arbitrary<Mutation>[] = [param, query]
   if (isUpload) parts.push(upload, upload)
-  else if (method !== 'GET') parts.push(body, body, body)
+  else if (method !== 'GET') parts.push(body, body, body, contentType)
   return fc.array(fc.oneof(...parts), { minLength: 1, maxLength: 3 })
 }
 
@@ -136,6 +139,8 @@ const inUrl = (value: string): string => Array.from(Buffer.from(value), (byte) =
 export interface HostileRequest extends RouteRequest {
   /** A body sent as this text instead of JSON. */
   raw?: string
+  /** Sent as the body's content type instead of JSON's. */
+  contentType?: string
 }
 
 /** The request with each change made in turn; `template` names the path's parameters (`/api/drills/[id]`). */
@@ -167,6 +172,7 @@ export function applyMutations(req: RouteRequest, template: string, list: Mutati
     }
     else if (m.kind === 'body') out.body = m.value
     else if (m.kind === 'raw') out.raw = m.text
+    else if (m.kind === 'type') out.contentType = m.value
     else if (m.kind === 'file' && out.upload) {
       const original = typeof out.upload.file.bytes === 'string' ? new TextEncoder().encode(out.upload.file.bytes) : out.upload.file.bytes
       // Half the time the real file cut short, half the time random bytes.
