@@ -59,6 +59,12 @@ export interface QuantiseOptions {
   grid: QuantiseGrid
   /** The drill's key, to spell black keys with flats where it has them (`Bb major`); sharps otherwise. */
   key?: string | null
+  /**
+   * Beat 0 of a metronome that clicked while the drill was played (performance.now() ms): onsets are
+   * read against its beats, and the drill starts on the whole beat before its first note, so a note
+   * played off the beat stays off it. Without a metronome the first note is beat 0.
+   */
+  originMs?: number
 }
 
 function spelling(key: string | null | undefined): Spelling {
@@ -72,21 +78,24 @@ function spelling(key: string | null | undefined): Spelling {
 }
 
 /**
- * The recorded notes as drill notes: the first note at beat 0, every onset and release snapped to the
- * nearest grid step, each note at least one step long. A key struck twice onto the same step (a
- * bounce) is one note, the longer.
+ * The recorded notes as drill notes: every onset and release snapped to the nearest grid step, each
+ * note at least one step long, the first note at beat 0 (or, against a metronome, within beat 0). A key
+ * struck twice onto the same step (a bounce) is one note, the longer.
  */
 export function quantiseRecording(notes: readonly RecordedNote[], options: QuantiseOptions): DrillNote[] {
   if (notes.length === 0) return []
   const steps = QUANTISE_GRIDS[options.grid].stepsPerBeat
   const beatMs = 60_000 / options.tempoBpm
-  const origin = Math.min(...notes.map(n => n.onMs))
+  const origin = options.originMs ?? Math.min(...notes.map(n => n.onMs))
   const toStep = (ms: number): number => Math.round(((ms - origin) / beatMs) * steps)
+  const snapped = notes.map(n => ({ midi: n.midi, on: toStep(n.onMs), off: toStep(n.offMs) }))
+  const first = Math.min(...snapped.map(n => n.on))
+  const shift = options.originMs === undefined ? first : Math.floor(first / steps) * steps
   const spell = spelling(options.key)
   const byStep = new Map<string, DrillNote>()
-  for (const n of notes) {
-    const on = toStep(n.onMs)
-    const off = Math.max(on + 1, toStep(n.offMs))
+  for (const n of snapped) {
+    const on = n.on - shift
+    const off = Math.max(on + 1, n.off - shift)
     const note: DrillNote = {
       pitch: nameFromMidi(n.midi, spell),
       beat: on / steps,
@@ -98,4 +107,3 @@ export function quantiseRecording(notes: readonly RecordedNote[], options: Quant
   }
   return [...byStep.values()].sort((a, b) => a.beat - b.beat || midiFromName(a.pitch) - midiFromName(b.pitch))
 }
-

@@ -117,6 +117,8 @@ describe('the drill editor', () => {
     await page.getByRole('tab', { name: 'Play it in' }).click()
     const recorder = page.getByTestId('recorder')
     await recorder.getByTestId('midi-status').getByText('Listening to').waitFor()
+    // Played freely first, without the click: the first kept note is beat 0.
+    await recorder.locator('input[name=click]').uncheck()
     await recorder.getByTestId('record-start').click()
     // A stray low note, six triplet eighths and a quarter at 90 bpm (a beat of 666.7 ms, a triplet
     // eighth of 222.2 ms), each up to 25 ms off, then a stray note at the end. Time stamps are the
@@ -146,9 +148,33 @@ describe('the drill editor', () => {
     // In thirds of a beat; the quarter is held one beat.
     expect((await page.getByLabel('Notes in the drill notation').inputValue()).replace(/\s+/g, ' ')).toBe('C4:1/3 D4 E4 F4 G4 A4 B4:1')
 
+    // Against the metronome's click: its beats are the grid's, so a drill that starts on the "and" of
+    // beat 2 keeps its half-beat rest. Eighths at 90 bpm (333.3 ms), each up to 30 ms off the click.
+    await page.getByRole('tab', { name: 'Play it in' }).click()
+    await recorder.locator('input[name=click]').check()
+    await recorder.getByTestId('record-start').click()
+    await expect.poll(() => recorder.getAttribute('data-beat-zero')).not.toBeNull()
+    await page.evaluate(() => {
+      const fake = (window as unknown as { __fakeMidi: { send: (data: number[], t: number) => void } }).__fakeMidi
+      const zero = Number(document.querySelector('[data-testid=recorder]')!.getAttribute('data-beat-zero'))
+      const beat = 60_000 / 90
+      const played: [number, number, number][] = [[67, 1.5 * beat + 20, 300], [65, 2 * beat - 30, 300], [64, 2.5 * beat + 15, 300], [62, 3 * beat, 640]]
+      for (const [note, at, hold] of played) {
+        fake.send([0x90, note, 70], zero + at)
+        fake.send([0x80, note, 0], zero + at + hold)
+      }
+    })
+    await recorder.getByTestId('record-stop').click()
+    await recorder.getByTestId('record-status').getByText('Recorded 4 notes').waitFor()
+    await recorder.locator('select[name=grid]').selectOption('eighth')
+    await recorder.getByTestId('record-use').click()
+    await page.getByRole('tab', { name: 'Type notes' }).click()
+    expect((await page.getByLabel('Notes in the drill notation').inputValue()).replace(/\s+/g, ' ')).toBe('r:1/2 G4 F4 E4 D4:1')
+
     // On the on-screen keys too: two keys clicked are two notes.
     await page.getByRole('tab', { name: 'Play it in' }).click()
     await recorder.getByTestId('play-with').selectOption('screen')
+    await recorder.locator('input[name=click]').uncheck()
     await recorder.getByTestId('record-start').click()
     await recorder.getByTestId('keyboard').locator('[data-midi="64"]').click()
     await recorder.getByTestId('keyboard').locator('[data-midi="67"]').click()

@@ -50,6 +50,18 @@ describe('quantiseRecording', () => {
     expect(beats(quantiseRecording(late, { tempoBpm: 100, grid: 'sixteenth' }))).toEqual([0, 1])
   })
 
+  it('reads onsets against the metronome\'s beats when one clicked, keeping an off-beat start off the beat', () => {
+    // The metronome's beat 0 at 10 s; at 100 bpm (600 ms a beat) the drill starts on the "and" of beat 3.
+    const zero = 10_000
+    const offBeat = played(100, [[60, 2.5, 3], [62, 3, 3.5, 25], [64, 3.5, 4, -30], [65, 4, 5, 10]], zero)
+    expect(beats(quantiseRecording(offBeat, { tempoBpm: 100, grid: 'eighth', originMs: zero }))).toEqual([0.5, 1, 1.5, 2])
+    // Without the metronome the first note is the drill's beat 0.
+    expect(beats(quantiseRecording(offBeat, { tempoBpm: 100, grid: 'eighth' }))).toEqual([0, 0.5, 1, 1.5])
+    // A note played a little before the click's beat 0 still lands on it.
+    const early = played(100, [[60, 0, 1, -40], [62, 1, 2]], zero)
+    expect(beats(quantiseRecording(early, { tempoBpm: 100, grid: 'sixteenth', originMs: zero }))).toEqual([0, 1])
+  })
+
   it('gives a short note one step, a held note its rounded length, and a chord one beat', () => {
     const notes = quantiseRecording(played(120, [[60, 0, 0.05], [64, 1, 2.9], [67, 1, 2.9, 18], [72, 3, 3.4]]), { tempoBpm: 120, grid: 'eighth' })
     expect(notes).toEqual([
