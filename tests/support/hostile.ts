@@ -20,7 +20,7 @@ const POLLUTING_KEYS = ['__proto__', 'constructor', 'prototype', '__defineGetter
 /** Keys a client might slip in to claim what is not theirs. */
 const CLAIM_KEYS = ['id', 'role', 'isAdmin', 'studentId', 'student_id', 'teacherId', 'ownerId', 'owner_id', 'userId', 'isPublic', 'archived', 'score', 'engineVersion', 'result']
 
-const QUERY_KEYS = ['drill', 'student', 'limit', 'range', 'tz', 'token', 'archived', 'q', 'hand', 'level', 'kind', 'sort', 'id', '__proto__', 'constructor']
+const QUERY_KEYS = ['drill', 'student', 'limit', 'cursor', 'range', 'tz', 'token', 'archived', 'q', 'hand', 'level', 'kind', 'sort', 'id', '__proto__', 'constructor']
 const FIELD_KEYS = ['part', 'staff', 'track', 'hand', 'measures', '__proto__', 'file']
 
 const deep = (depth: number): unknown => {
@@ -40,6 +40,8 @@ export const hostileString: fc.Arbitrary<string> = fc.oneof(
   fc.string({ unit: 'binary', maxLength: 40 }).map(s => MARKER + s),
   fc.string({ unit: 'grapheme', maxLength: 300 }),
   fc.date({ min: new Date(-8.64e15), max: new Date(8.64e15), noInvalidDate: true }).map(d => d.toISOString()),
+  // Shaped like an attempt list's page cursor (`<started at>_<id>`), with a date no TIMESTAMP holds.
+  fc.constantFrom(...DATES).map(d => `${d}_0b7e5a3c-1d2f-4e6a-8b9c-0d1e2f3a4b5c`),
   hugeString,
 )
 
