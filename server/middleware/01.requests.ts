@@ -12,6 +12,6 @@ export default defineEventHandler(async (event) => {
   if (type !== 'application/json' && !upload) {
     throw createError({ statusCode: 415, statusMessage: 'Unsupported media type', message: `body: send application/json${UPLOAD_ROUTES.has(path) ? ' or multipart/form-data' : ''}` })
   }
-  const { limits } = useRuntimeConfig(event)
+  const { limits } = useRuntimeConfig()
   await readBoundedBody(event, Number(upload ? limits.uploadBytes : limits.bodyBytes))
 })

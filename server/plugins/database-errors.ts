@@ -31,7 +31,7 @@ export default defineNitroPlugin((nitroApp) => {
       h3Error.statusCode = 503
       h3Error.statusMessage = 'Service unavailable'
       h3Error.unhandled = false
-      if (event) setResponseHeader(event, 'retry-after', Number(useRuntimeConfig(event).limits.retryAfterSeconds))
+      if (event) setResponseHeader(event, 'retry-after', Number(useRuntimeConfig().limits.retryAfterSeconds))
     }
     else {
       // Logged above by code; the default handler would print the whole error again.

@@ -22,7 +22,7 @@ export const DevMailParams = z.object({ id: z.string().regex(/^[\w-]{1,80}\.eml$
 
 /** The folder of stored messages; a 404 for everyone where mail goes to a real provider, a 403 for other accounts. */
 export async function requireDevMail(event: H3Event): Promise<string> {
-  const { mail } = useRuntimeConfig(event)
+  const { mail } = useRuntimeConfig()
   const notFound = createError({ statusCode: 404, statusMessage: 'Not found', message: 'Page not found' })
   if (!Number(mail.local) || !mail.dir) throw notFound
   const user = await requireRole(event)

@@ -7,10 +7,10 @@ export type LimitName = 'signInIp' | 'signInAccount' | 'signUpIp' | 'joinCode' |
 
 const limiters = new Map<LimitName, RateLimiterMySQL>()
 
-function limiter(event: H3Event, name: LimitName): RateLimiterMySQL {
+function limiter(name: LimitName): RateLimiterMySQL {
   let found = limiters.get(name)
   if (!found) {
-    const { limits, db } = useRuntimeConfig(event)
+    const { limits, db } = useRuntimeConfig()
     const spec: Record<LimitName, { points: number, duration: number }> = {
       signInIp: { points: Number(limits.signInFailuresPerIp), duration: Number(limits.signInWindowSeconds) },
       signInAccount: { points: Number(limits.signInFailuresPerAccount), duration: Number(limits.signInWindowSeconds) },
@@ -46,7 +46,7 @@ function tooMany(event: H3Event, msBeforeNext: number, message: string): Error {
 
 /** Throws a 429 when `key` has used up `name`'s points, without spending any. */
 export async function refuseWhenSpent(event: H3Event, name: LimitName, key: string, message: string): Promise<void> {
-  const l = limiter(event, name)
+  const l = limiter(name)
   const state = await l.get(key)
   if (state && state.consumedPoints >= l.points) throw tooMany(event, state.msBeforeNext, message)
 }
@@ -54,7 +54,7 @@ export async function refuseWhenSpent(event: H3Event, name: LimitName, key: stri
 /** Spends one point of `name` for `key`; throws a 429 when none was left. */
 export async function spend(event: H3Event, name: LimitName, key: string, message: string): Promise<void> {
   try {
-    await limiter(event, name).consume(key)
+    await limiter(name).consume(key)
   }
   catch (error) {
     if (error instanceof RateLimiterRes) throw tooMany(event, error.msBeforeNext, message)
@@ -64,11 +64,11 @@ export async function spend(event: H3Event, name: LimitName, key: string, messag
 
 /** Spends one point without refusing: the next request is the one refused. */
 export async function spendQuietly(event: H3Event, name: LimitName, key: string): Promise<void> {
-  await limiter(event, name).consume(key).catch((error: unknown) => {
+  await limiter(name).consume(key).catch((error: unknown) => {
     if (!(error instanceof RateLimiterRes)) throw error
   })
 }
 
 export async function forget(event: H3Event, name: LimitName, key: string): Promise<void> {
-  await limiter(event, name).delete(key)
+  await limiter(name).delete(key)
 }

@@ -7,8 +7,8 @@ import type { User } from '#auth-utils'
 /** A row's last use is written at most this often, so reading a session rarely costs a write. */
 const TOUCH_EVERY_MS = 60_000
 
-function lifetimes(event: H3Event): { idleMs: number, absoluteMs: number } {
-  const { sessions } = useRuntimeConfig(event)
+function lifetimes(): { idleMs: number, absoluteMs: number } {
+  const { sessions } = useRuntimeConfig()
   return { idleMs: Number(sessions.idleSeconds) * 1000, absoluteMs: Number(sessions.absoluteSeconds) * 1000 }
 }
 
@@ -22,7 +22,7 @@ function dropRequestCookie(event: H3Event, name: string): void {
 /** Signs `user` in: a new session row and a cookie naming it. */
 export async function startSession(event: H3Event, user: User): Promise<void> {
   const sid = randomBytes(32).toString('base64url')
-  await useDb()('sessions').insert({ id: sid, user_id: user.id, expires_at: new Date(Date.now() + lifetimes(event).absoluteMs) })
+  await useDb()('sessions').insert({ id: sid, user_id: user.id, expires_at: new Date(Date.now() + lifetimes().absoluteMs) })
   await replaceUserSession(event, { user, secure: { sid }, loggedInAt: Date.now() })
 }
 
@@ -50,11 +50,11 @@ export async function checkSession(event: H3Event): Promise<void> {
   const row = sid ? await db('sessions').where({ id: sid }).first('user_id', 'last_seen_at', 'expires_at') : undefined
   const now = Date.now()
   const lastSeen = row ? new Date(row.last_seen_at).getTime() : 0
-  const alive = row && Number(row.user_id) === session.user.id && new Date(row.expires_at).getTime() > now && now - lastSeen < lifetimes(event).idleMs
+  const alive = row && Number(row.user_id) === session.user.id && new Date(row.expires_at).getTime() > now && now - lastSeen < lifetimes().idleMs
   if (!alive) {
     if (row) await db('sessions').where({ id: sid }).delete()
     await clearUserSession(event)
-    dropRequestCookie(event, String(useRuntimeConfig(event).session.name))
+    dropRequestCookie(event, String(useRuntimeConfig().session.name))
     return
   }
   if (now - lastSeen > TOUCH_EVERY_MS) await db('sessions').where({ id: sid }).update({ last_seen_at: new Date(now) })
