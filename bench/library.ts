@@ -53,7 +53,8 @@ export function benchLibrary(): void {
   })
   const line = read.notes.map(n => midiFromName(n.pitch))
   time('suggest fingering for the imported drill', () => {
-    suggestFingering({ hand: 'right', notes: line })
+    const { fingers } = suggestFingering({ hand: 'right', notes: line })
+    if (fingers.length !== NOTES) throw new Error(`suggestion gave ${fingers.length} fingers`)
   })
   time('suggest hands and fingers for it (both hands)', () => {
     suggestHands({ notes: line })

@@ -81,6 +81,11 @@ describe('the drill editor', () => {
     await expect.poll(async () => (await noteList(page)).map(t => t.replace(/\s/g, ''))).toEqual(line.map((p, i) => `${p}${expected[i]}`))
     const keyboard = page.getByTestId('drill-preview').getByTestId('keyboard')
     expect(await keyboard.locator('[data-midi="67"]').innerText()).toContain(`finger ${expected[0]}`)
+    // Played back at its tempo: the keys light as the notes sound, the first key first.
+    await page.getByTestId('preview-play').click()
+    await keyboard.locator('[data-midi="67"][data-pressed]').waitFor()
+    await keyboard.locator('[data-midi="79"][data-pressed]').waitFor()
+    await page.getByTestId('preview-play').filter({ hasText: /^Play it at 96 bpm$/ }).waitFor()
     // The typed text follows the suggestion, so typing goes on from it.
     expect(await notation.inputValue()).toContain(`G4/${expected[0]}`)
 
