@@ -58,6 +58,9 @@ export const StudentParams = z.object({ id: z.coerce.number({ error: 'not a stud
 export async function loadAccount(db: Knex, userId: number): Promise<Account> {
   const row = await db('users').where({ id: userId }).first('id', 'name', 'email', 'role', 'guardian_email', 'guardian_summary_stopped_at')
   if (!row) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'This account no longer exists' })
+  // A new link retires the older ones (requestEmailChange), so at most one is live.
+  const pending = await db('one_time_tokens').where({ user_id: userId, kind: 'email-change' }).whereNull('used_at')
+    .where('expires_at', '>', new Date()).orderBy('id', 'desc').first('subject', 'expires_at')
   return {
     id: Number(row.id),
     name: row.name,
@@ -65,6 +68,7 @@ export async function loadAccount(db: Knex, userId: number): Promise<Account> {
     role: row.role,
     guardianEmail: row.guardian_email ?? null,
     guardianSummaryStopped: Boolean(row.guardian_summary_stopped_at),
+    pendingEmail: pending ? { email: pending.subject, expiresAt: new Date(pending.expires_at).toISOString() } : null,
   }
 }
 

@@ -65,4 +65,6 @@ export interface Account {
   /** Students only: who receives the weekly summary, and whether they stopped it. */
   guardianEmail: string | null
   guardianSummaryStopped: boolean
+  /** A new sign-in e-mail waiting for its link to be opened (the sign-in e-mail is still `email`). */
+  pendingEmail: { email: string, expiresAt: string } | null
 }

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { Email, LinkToken, RegisterInput } from './account'
+import { Email, LinkToken, RegisterInput, Role } from './account'
 
 export const ClassName = z.string().trim().min(1, { error: 'Give the class a name' }).max(120, { error: 'At most 120 characters' })
 
@@ -34,8 +34,8 @@ export type InvitationStatus = 'pending' | 'accepted' | 'expired' | 'revoked'
 export const StudentRegisterInput = RegisterInput.extend({ role: z.literal('student'), joinCode: JoinCode })
 export type StudentRegisterInput = z.infer<typeof StudentRegisterInput>
 
-/** Who a sign-up is for; without `role` it opens a teacher's studio, as it always has. */
-export const RegisterRole = z.object({ role: z.enum(['teacher', 'student'], { error: 'role: teacher or student' }).default('teacher') })
+/** Who a sign-up is for (never an admin, made from the command line only); without `role` it opens a teacher's studio, as it always has. */
+export const RegisterRole = z.object({ role: Role.extract(['teacher', 'student'], { error: 'role: teacher or student' }).default('teacher') })
 
 export const InvitationLookup = z.object({ token: LinkToken })
 

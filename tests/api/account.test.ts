@@ -1,6 +1,7 @@
 import { afterAll, describe, expect, it } from 'vitest'
 import { Client, closeTestDb, testDb } from '../support/server'
 import { linkIn, waitForMail } from '../support/mail'
+import type { Account } from '../../shared/types/account'
 
 afterAll(closeTestDb)
 
@@ -68,6 +69,12 @@ describe('account settings', () => {
     // Nothing changes before the link is followed.
     expect(await testDb()('users').where({ email }).first('id')).toBeDefined()
     expect((await new Client().post('/api/auth/login', { email: newEmail, password })).status).toBe(401)
+    const waiting = (await client.get<{ account: Account }>('/api/account')).body.account
+    expect(waiting.email).toBe(email)
+    expect(waiting.pendingEmail?.email).toBe(newEmail)
+    // The link works for 24 hours.
+    expect(Date.parse(waiting.pendingEmail!.expiresAt) - Date.now()).toBeGreaterThan(23 * 3_600_000)
+    expect(Date.parse(waiting.pendingEmail!.expiresAt) - Date.now()).toBeLessThanOrEqual(24 * 3_600_000)
 
     const [mail] = await waitForMail(newEmail)
     expect(mail!.parsed.subject).toBe('Confirm your new e-mail address for Evenhand')
@@ -79,6 +86,7 @@ describe('account settings', () => {
     expect((await client.get<{ user: { email: string } }>('/api/_auth/session')).body.user.email).toBe(newEmail)
     expect((await new Client().post('/api/auth/login', { email: newEmail, password })).status).toBe(200)
     expect((await new Client().post('/api/auth/login', { email, password })).status).toBe(401)
+    expect((await client.get<{ account: Account }>('/api/account')).body.account).toMatchObject({ email: newEmail, pendingEmail: null })
 
     const again = await new Client().post('/api/auth/confirm-email', { token: link.searchParams.get('token') })
     expect(again.status).toBe(410)
