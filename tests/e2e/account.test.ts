@@ -61,7 +61,7 @@ describe('the account section of the settings page', () => {
     await page.getByRole('status').filter({ hasText: 'Password changed' }).waitFor()
     expect(await current.inputValue()).toBe('')
 
-    await page.getByRole('button', { name: 'Sign out' }).click()
+    await page.getByRole('button', { name: 'Sign out', exact: true }).click()
     await page.waitForURL(/\/login/)
     await signInAs(page, email, FIRST_PASSWORD)
     await expect.poll(() => page.getByRole('alert').textContent()).toContain('Wrong e-mail or password')
