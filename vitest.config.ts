@@ -2,8 +2,8 @@ import { defineConfig } from 'vitest/config'
 import { defineVitestProject } from '@nuxt/test-utils/config'
 
 // Five projects, cheapest first: the pure engine and utilities, composables in a Nuxt environment,
-// the API against a built server and a real MariaDB, end-to-end runs in Debian's chromium, and last,
-// alone, the fault tests that take MariaDB and the network away while attempts are saved.
+// the API against a built server and a real MariaDB, end-to-end runs in Debian's chromium, and, in a
+// group of their own, the fault tests that take MariaDB and the network away while attempts are saved.
 export default defineConfig({
   test: {
     projects: [
@@ -41,7 +41,8 @@ export default defineConfig({
           testTimeout: 180_000,
           hookTimeout: 120_000,
           fileParallelism: false,
-          // These stop and start the test MariaDB and take the network away: only once every other project is done.
+          // These stop and start the test MariaDB and take the network away: in a group of their own, so no
+          // other project's tests run beside them.
           sequence: { groupOrder: 1 },
         },
       },
