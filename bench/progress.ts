@@ -3,6 +3,7 @@
 // HTTP on this machine). Figures only, never asserted: the machine is shared.
 import { randomUUID } from 'node:crypto'
 import { hashPassword } from '../scripts/lib/password'
+import { attemptRowCopier } from '../tests/support/attempts'
 import { Client, closeTestDb, testDb } from '../tests/support/server'
 import { ROUTE_RUNS, ROUTE_WARM_UP, timeRoute } from './routes'
 
@@ -17,13 +18,12 @@ async function benchStudent(): Promise<{ id: number, email: string, busiest: num
   const cls = await db('classes').where({ name: 'Tuesday Starters' }).first('id')
   await db('class_members').insert({ class_id: cls.id, student_id: id })
   const source = await db('attempts as a').join('users as u', 'u.id', 'a.student_id').where('u.email', 'student@evenhand.test').select('a.*')
+  const copy = await attemptRowCopier(db)
   const now = Date.now()
   const rows = Array.from({ length: ATTEMPTS }, (_, k) => {
-    const a = source[k % source.length]
+    const a = source[k % source.length]!
     const startedAt = new Date(now - (400 * DAY_MS * (ATTEMPTS - k)) / ATTEMPTS)
-    // JSON columns may come back parsed; they go in again as text.
-    const copy = Object.fromEntries(Object.entries(a).map(([k, v]) => [k, v !== null && typeof v === 'object' && !(v instanceof Date) ? JSON.stringify(v) : v]))
-    return { ...copy, id: randomUUID(), student_id: id, assignment_id: null, started_at: startedAt, created_at: startedAt }
+    return { ...copy(a), id: randomUUID(), student_id: id, assignment_id: null, started_at: startedAt, created_at: startedAt }
   })
   for (let k = 0; k < rows.length; k += 200) await db('attempts').insert(rows.slice(k, k + 200))
   const busiest = await db('attempts').where('student_id', id).groupBy('drill_id').orderByRaw('COUNT(*) DESC').first('drill_id', db.raw('COUNT(*) AS n'))

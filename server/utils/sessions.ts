@@ -19,10 +19,13 @@ function dropRequestCookie(event: H3Event, name: string): void {
   event.node.req.headers.cookie = header.split(';').filter(part => part.split('=')[0]!.trim() !== name).join(';')
 }
 
-/** Signs `user` in: a new session row and a cookie naming it. */
+/** Signs `user` in: a new session row and a cookie naming it; the browser's time zone goes on the account. */
 export async function startSession(event: H3Event, user: User): Promise<void> {
   const sid = randomBytes(32).toString('base64url')
   await useDb()('sessions').insert({ id: sid, user_id: user.id, expires_at: new Date(Date.now() + lifetimes().absoluteMs) })
+  // The browser's zone at sign-in is the user's: their practice days follow it, whoever looks at them.
+  const zone = browserTimeZone(event)
+  if (zone) await useDb()('users').where({ id: user.id }).update({ time_zone: zone })
   await replaceUserSession(event, { user, secure: { sid }, loggedInAt: Date.now() })
 }
 

@@ -5,7 +5,9 @@ import type { Knex } from 'knex'
 import type { User } from '#auth-utils'
 import { fingerHabits, habitStatement, leastSquaresLine, unplannedShifts, type HabitResult, type ShiftResult } from '#shared/engine'
 import type { DrillNote } from '#shared/types/drill'
-import { RANGE_DAYS, type DrillProgress, type HabitsView, type PracticeDay, type ProgressFigure, type ProgressOverview, type ProgressPoint, type ProgressQuery, type ProgressRange, type TrendLine } from '#shared/types/progress'
+import { addDays, dayAtOffset, offsetChanges, type OffsetChange } from '#shared/utils/localDays'
+import { todayIn } from '#shared/utils/dueDate'
+import { ATTEMPTS_PER_PAGE, RANGE_DAYS, type StudentAttemptsPage, type DrillProgress, type HabitsView, type PracticeDay, type ProgressFigure, type ProgressOverview, type ProgressPoint, type ProgressQuery, type ProgressRange, type TrendLine } from '#shared/types/progress'
 
 const DAY_MS = 86_400_000
 const LOG_DAYS = 56
@@ -61,17 +63,11 @@ export async function drillProgress(db: Knex, user: User, student: StudentRef, d
   if (!visible) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'Drill not found' })
 
   const [rows, summary, target, plan] = await Promise.all([
-    scoped().orderBy('started_at').select(
-      'id', 'started_at', 'score',
-      db.raw('JSON_VALUE(result, \'$.timing.sdMs\') AS sd_ms'),
-      db.raw('JSON_VALUE(result, \'$.loudness.sd\') AS velocity_sd'),
-      db.raw('JSON_VALUE(result, \'$.positionChanges.planned\') AS planned'),
-      db.raw('JSON_VALUE(result, \'$.positionChanges.played\') AS played'),
-      db.raw('JSON_VALUE(result, \'$.tempo.playedBpm\') AS played_bpm'),
-    ),
+    // The figures are MariaDB's generated columns over each stored grade (migration 84).
+    scoped().orderBy('started_at').select('id', 'started_at', 'score', 'timing_sd_ms as sd_ms', 'velocity_sd',
+      'positions_planned as planned', 'positions_played as played', 'played_bpm'),
     scoped().first(
-      db.raw('COUNT(*) AS n'), db.raw('MAX(score) AS best'), db.raw('AVG(score) AS mean'),
-      db.raw('MAX(CAST(JSON_VALUE(result, \'$.tempo.playedBpm\') AS DOUBLE)) AS best_bpm'),
+      db.raw('COUNT(*) AS n'), db.raw('MAX(score) AS best'), db.raw('AVG(score) AS mean'), db.raw('MAX(played_bpm) AS best_bpm'),
       db.raw('MIN(started_at) AS first'), db.raw('MAX(started_at) AS last'),
     ),
     assignmentsOfStudent(db, student.id).clone()
@@ -79,8 +75,7 @@ export async function drillProgress(db: Knex, user: User, student: StudentRef, d
       .where('dsi.drill_id', drillId)
       .orderBy([{ column: 'a.due_at', order: 'desc' }, { column: 'a.id', order: 'desc' }])
       .first('dsi.target_tempo_bpm', 'dsi.target_score'),
-    db('attempts').where({ student_id: student.id, drill_id: drillId }).orderBy('started_at', 'desc')
-      .first(db.raw('JSON_VALUE(result, \'$.positionChanges.planned\') AS planned')),
+    db('attempts').where({ student_id: student.id, drill_id: drillId }).orderBy('started_at', 'desc').first('positions_planned as planned'),
   ])
   const points: ProgressPoint[] = rows.map((r: Record<string, unknown>) => {
     const sd = num(r.sd_ms)
@@ -121,47 +116,78 @@ export async function drillProgress(db: Knex, user: User, student: StudentRef, d
   }
 }
 
-function dayKey(ms: number): string {
-  return new Date(ms).toISOString().slice(0, 10)
+/** Where a student's days begin and end: an IANA zone, or a fixed offset in minutes east of UTC. */
+export type DayZone = string | number
+
+/** How many days back a practice run is looked for. */
+const STREAK_DAYS = 1000
+
+/** Each zone's offsets over the span a request reads, worked out once a day per zone. */
+const zoneHistories = new Map<string, OffsetChange[]>()
+
+function zoneHistory(zone: string, now: number): OffsetChange[] {
+  const today = Math.floor(now / DAY_MS) * DAY_MS
+  const key = `${zone} ${today}`
+  let history = zoneHistories.get(key)
+  if (!history) {
+    if (zoneHistories.size > 200) zoneHistories.clear()
+    history = offsetChanges(zone, today - (STREAK_DAYS + 2) * DAY_MS, today + 2 * DAY_MS)
+    zoneHistories.set(key, history)
+  }
+  return history
 }
 
-/** Every drill the student played with best and latest figures, the practice log and the run of days. */
-export async function progressOverview(db: Knex, student: StudentRef, tzMinutes: number, now = Date.now()): Promise<ProgressOverview> {
-  const localNow = now + tzMinutes * 60_000
-  const firstDay = dayKey(localNow - (LOG_DAYS - 1) * DAY_MS)
+/**
+ * A student's calendar day of `started_at`, in SQL: the instant moved by the offset in force then,
+ * daylight-saving changes included, so MariaDB can group by the student's own days.
+ */
+function localDaySql(db: Knex, zone: DayZone, now: number): Knex.Raw {
+  const changes = typeof zone === 'number' ? [{ fromMs: 0, offsetMinutes: zone }] : zoneHistory(zone, now)
+  const later = changes.slice(1).reverse()
+  const offset = later.length
+    ? `CASE ${later.map(() => 'WHEN started_at >= ? THEN ?').join(' ')} ELSE ? END`
+    : '?'
+  const bindings = [...later.flatMap(c => [new Date(c.fromMs), c.offsetMinutes]), changes[0]!.offsetMinutes]
+  return db.raw(`DATE_FORMAT(started_at + INTERVAL (${offset}) MINUTE, '%Y-%m-%d')`, bindings)
+}
+
+/** Every drill the student played with best and latest figures, the practice log and the run of days, in the student's days. */
+export async function progressOverview(db: Knex, student: StudentRef, zone: DayZone, now = Date.now()): Promise<ProgressOverview> {
+  const today = typeof zone === 'number' ? dayAtOffset(now, zone) : todayIn(zone, now)
+  const streakFrom = now - (STREAK_DAYS + 1) * DAY_MS
+  // A day before the log's first, so the whole of that day is read in any zone.
+  const logFrom = now - (LOG_DAYS + 1) * DAY_MS
   const [records, days, practised] = await Promise.all([
     db('attempts as t').join('drills as d', 'd.id', 't.drill_id').where('t.student_id', student.id)
       .groupBy('t.drill_id', 'd.title').orderBy('last_at', 'desc')
       .select('t.drill_id', 'd.title', db.raw('COUNT(*) AS n'), db.raw('MAX(t.score) AS best'),
         db.raw('SUBSTRING_INDEX(GROUP_CONCAT(t.score ORDER BY t.started_at DESC), \',\', 1) AS latest'),
-        db.raw('MAX(CAST(JSON_VALUE(t.result, \'$.tempo.playedBpm\') AS DOUBLE)) AS best_bpm'),
-        db.raw('SUBSTRING_INDEX(GROUP_CONCAT(COALESCE(JSON_VALUE(t.result, \'$.tempo.playedBpm\'), \'\') ORDER BY t.started_at DESC), \',\', 1) AS latest_bpm'),
+        db.raw('MAX(t.played_bpm) AS best_bpm'),
+        db.raw('SUBSTRING_INDEX(GROUP_CONCAT(COALESCE(t.played_bpm, \'\') ORDER BY t.started_at DESC), \',\', 1) AS latest_bpm'),
         db.raw('MAX(t.started_at) AS last_at')),
-    // An attempt lasts from its first event (or time zero, if a note came in the count-in) to its last.
-    db('attempts').where('student_id', student.id).where('started_at', '>=', new Date(now - (LOG_DAYS + 1) * DAY_MS))
+    db('attempts').where('student_id', student.id).where('started_at', '>=', new Date(logFrom))
       .groupByRaw('1').select(
-        db.raw('DATE_FORMAT(DATE(started_at + INTERVAL ? MINUTE), \'%Y-%m-%d\') AS day', [tzMinutes]),
+        db.raw('? AS day', [localDaySql(db, zone, now)]),
         db.raw('COUNT(*) AS n'),
-        db.raw('SUM(GREATEST(0, COALESCE(JSON_VALUE(events, \'$[last].timeMs\'), 0) - LEAST(0, COALESCE(JSON_VALUE(events, \'$[0].timeMs\'), 0)))) / 60000 AS minutes'),
+        db.raw('SUM(duration_ms) / 60000 AS minutes'),
       ),
-    db('attempts').where('student_id', student.id)
-      .distinct(db.raw('DATE_FORMAT(DATE(started_at + INTERVAL ? MINUTE), \'%Y-%m-%d\') AS day', [tzMinutes])).orderBy('day', 'desc').limit(1000),
+    db('attempts').where('student_id', student.id).where('started_at', '>=', new Date(streakFrom))
+      .distinct(db.raw('? AS day', [localDaySql(db, zone, now)])).orderBy('day', 'desc').limit(STREAK_DAYS),
   ])
   const byDay = new Map<string, { n: number, minutes: number }>(days.map((d: Record<string, unknown>) => [String(d.day), { n: Number(d.n), minutes: Number(d.minutes) }]))
   const log: PracticeDay[] = []
   for (let k = LOG_DAYS - 1; k >= 0; k--) {
-    const day = dayKey(localNow - k * DAY_MS)
-    if (day < firstDay) continue
+    const day = addDays(today, -k)
     const d = byDay.get(day)
     log.push({ day, minutes: d ? Math.round(d.minutes * 10) / 10 : 0, attempts: d?.n ?? 0 })
   }
   const done = new Set(practised.map((r: { day: string }) => String(r.day)))
   let streak = 0
   // Today without practice yet does not break the run: the day is not over.
-  let cursor = done.has(dayKey(localNow)) ? localNow : localNow - DAY_MS
-  while (done.has(dayKey(cursor))) {
+  let cursor = done.has(today) ? today : addDays(today, -1)
+  while (done.has(cursor)) {
     streak++
-    cursor -= DAY_MS
+    cursor = addDays(cursor, -1)
   }
   return {
     student,
@@ -180,26 +206,34 @@ export async function progressOverview(db: Knex, student: StudentRef, tzMinutes:
   }
 }
 
+/** The `habit_figures` column: the parts of a stored grade the habits read. */
+interface HabitFigures {
+  fingers: HabitResult['inferredFingers']
+  deviations: HabitResult['timing']['deviationsMs']
+  velocities: HabitResult['loudness']['velocities']
+  at: ShiftResult['positionChanges']['at']
+  plannedAt: ShiftResult['positionChanges']['plannedAt']
+}
+
 /** Per-finger habits and unplanned position changes over the student's recent attempts. */
 export async function studentHabits(db: Knex, viewer: User, student: StudentRef, range: ProgressRange, now = Date.now()): Promise<HabitsView> {
   const from = since(range, now)
+  // `habit_figures` is MariaDB's generated column of the arrays below, taken from each stored grade (migration 84).
   const q = db('attempts').where('student_id', student.id).orderBy('started_at', 'desc').limit(HABIT_ATTEMPTS)
-    .select('drill_id', 'drill_version',
-      db.raw('JSON_EXTRACT(result, \'$.inferredFingers\') AS fingers'),
-      db.raw('JSON_EXTRACT(result, \'$.timing.deviationsMs\') AS deviations'),
-      db.raw('JSON_EXTRACT(result, \'$.loudness.velocities\') AS velocities'),
-      db.raw('JSON_EXTRACT(result, \'$.positionChanges.at\') AS shift_at'),
-      db.raw('JSON_EXTRACT(result, \'$.positionChanges.plannedAt\') AS shift_planned'))
+    .select('drill_id', 'drill_version', 'habit_figures')
   if (from) q.where('started_at', '>=', from)
   const rows: Record<string, unknown>[] = await q
-  const results: (HabitResult & ShiftResult & { drillId: number, version: number })[] = rows.map(r => ({
-    drillId: Number(r.drill_id),
-    version: Number(r.drill_version),
-    inferredFingers: parseJson(r.fingers),
-    timing: { deviationsMs: parseJson(r.deviations) },
-    loudness: { velocities: parseJson(r.velocities) },
-    positionChanges: { at: parseJson(r.shift_at), plannedAt: parseJson(r.shift_planned) },
-  }))
+  const results: (HabitResult & ShiftResult & { drillId: number, version: number })[] = rows.map((r) => {
+    const f = parseJson<HabitFigures>(r.habit_figures)
+    return {
+      drillId: Number(r.drill_id),
+      version: Number(r.drill_version),
+      inferredFingers: f.fingers,
+      timing: { deviationsMs: f.deviations },
+      loudness: { velocities: f.velocities },
+      positionChanges: { at: f.at, plannedAt: f.plannedAt },
+    }
+  })
   const who = viewer.id === student.id ? 'your' : `${student.name.split(' ')[0]}'s`
   const shifts = unplannedShifts(results)
   // The pitch at a place comes from the latest version of the drill the student played there.
@@ -224,10 +258,44 @@ export async function studentHabits(db: Knex, viewer: User, student: StudentRef,
   }
 }
 
+/** One page of the student's attempts, newest first, each with its drill and how many comments it has. */
+export async function studentAttempts(db: Knex, student: StudentRef, page: number): Promise<StudentAttemptsPage> {
+  const [rows, count] = await Promise.all([
+    db('attempts as a').join('drills as d', 'd.id', 'a.drill_id').where('a.student_id', student.id)
+      .orderBy([{ column: 'a.started_at', order: 'desc' }, { column: 'a.id', order: 'desc' }])
+      .limit(ATTEMPTS_PER_PAGE).offset((page - 1) * ATTEMPTS_PER_PAGE)
+      .select('a.id', 'a.drill_id', 'd.title', 'a.started_at', 'a.score', 'a.tempo_bpm', 'a.played_bpm', 'a.input_device',
+        'a.part_from_bar', 'a.part_to_bar', 'a.part_hand', db('comments as c').whereRaw('c.attempt_id = a.id').count('*').as('comments')),
+    db('attempts').where('student_id', student.id).count({ n: '*' }).first(),
+  ])
+  return {
+    student,
+    attempts: rows.map((r: Record<string, unknown>) => ({
+      id: String(r.id),
+      drillId: Number(r.drill_id),
+      drillTitle: String(r.title),
+      startedAt: new Date(r.started_at as string).toISOString(),
+      score: Number(r.score),
+      tempoBpm: Number(r.tempo_bpm),
+      playedBpm: num(r.played_bpm),
+      inputDevice: String(r.input_device),
+      part: r.part_from_bar == null ? null : { fromBar: Number(r.part_from_bar), toBar: Number(r.part_to_bar), hand: r.part_hand == null ? null : String(r.part_hand) },
+      comments: Number(r.comments),
+    })),
+    page,
+    perPage: ATTEMPTS_PER_PAGE,
+    total: Number(count?.n ?? 0),
+  }
+}
+
 /** What both progress routes answer: one drill's series with `drill`, else the overview. */
 export async function studentProgress(event: H3Event, user: User, studentId: number, query: ProgressQuery): Promise<DrillProgress | ProgressOverview> {
   const db = useDb()
   const student = await readableStudent(db, user, studentId)
   setResponseHeader(event, 'cache-control', 'private, no-store')
-  return query.drill ? drillProgress(db, user, student, query.drill, query.range) : progressOverview(db, student, query.tz)
+  if (query.drill) return drillProgress(db, user, student, query.drill, query.range)
+  // The student's own zone, kept from their latest sign-in; else, to the student, their browser's; else the offset the page sent.
+  const stored = await db('users').where('id', student.id).first('time_zone')
+  const zone = stored?.time_zone ?? (user.id === student.id ? browserTimeZone(event) : null) ?? query.tz
+  return progressOverview(db, student, zone)
 }

@@ -21,6 +21,14 @@ export type ProgressQuery = z.infer<typeof ProgressQuery>
 export const HabitsQuery = z.object({ range: ProgressRange.default('3m') })
 export type HabitsQuery = z.infer<typeof HabitsQuery>
 
+/** A page of a student's attempts, newest first. */
+export const AttemptPageQuery = z.object({
+  page: z.coerce.number({ error: 'a page number' }).int({ error: 'a whole page number' }).min(1, { error: 'pages start at 1' }).max(1_000_000).default(1),
+})
+export type AttemptPageQuery = z.infer<typeof AttemptPageQuery>
+
+export const ATTEMPTS_PER_PAGE = 20
+
 export const StudentParams = z.object({ id: z.coerce.number({ error: 'a student id' }).pipe(RowId) })
 
 /** One attempt on a progress chart; every figure read from the attempt's stored grade. */
@@ -91,4 +99,26 @@ export interface HabitsView {
   attempts: number
   fingers: (FingerHabit & { statement: string })[]
   shifts: { drillId: number, drillTitle: string, noteIndex: number, pitch: string | null, times: number, attempts: number }[]
+}
+
+/** One attempt in a student's list: what a teacher scans before opening it. */
+export interface StudentAttemptRow {
+  id: string
+  drillId: number
+  drillTitle: string
+  startedAt: string
+  score: number
+  tempoBpm: number
+  playedBpm: number | null
+  inputDevice: string
+  part: { fromBar: number, toBar: number, hand: string | null } | null
+  comments: number
+}
+
+export interface StudentAttemptsPage {
+  student: { id: number, name: string }
+  attempts: StudentAttemptRow[]
+  page: number
+  perPage: number
+  total: number
 }

@@ -5,7 +5,7 @@ import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { closeTestDb, testDb } from '../support/server'
 import type { Client } from '../support/server'
-import { attemptBody, type DrillReply } from '../support/attempts'
+import { attemptBody, attemptRowCopier, type DrillReply } from '../support/attempts'
 import { newClass, newStudent, newTeacher, publicDrillIds } from '../support/studio'
 
 afterAll(closeTestDb)
@@ -73,9 +73,7 @@ beforeAll(async () => {
   const first = await students[0]!.client.post('/api/attempts', attemptBody(drill))
   expect(first.status).toBe(201)
   const row = await testDb()('attempts').where({ id: (first.body.attempt as { id: string }).id }).first()
-  // mysql2 hands JSON columns back parsed; they go in again as text.
-  const asText = (v: unknown): string | null => (v === null || typeof v === 'string' ? v : JSON.stringify(v))
-  const template = { ...row, events: asText(row.events), pedal: asText(row.pedal), result: asText(row.result) }
+  const template = (await attemptRowCopier(testDb()))(row)
 
   // Ines played 1,500 times over three weeks, Jon 60, Kai once; some attempts share a start to the millisecond.
   const next = random(20261203)

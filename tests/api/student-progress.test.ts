@@ -1,9 +1,14 @@
 // The progress, habits, MIDI export and comment read-state routes, each checked against figures the
 // test recomputes itself from the stored attempts (simple-statistics for the means).
+import { randomUUID } from 'node:crypto'
 import { parseMidi } from 'midi-file'
 import { mean } from 'simple-statistics'
 import { afterAll, describe, expect, it } from 'vitest'
-import type { DrillProgress, HabitsView, ProgressOverview } from '../../shared/types/progress'
+import type { DrillProgress, HabitsView, ProgressOverview, StudentAttemptsPage } from '../../shared/types/progress'
+import { TZDate } from '@date-fns/tz'
+import { hashPassword } from '../../scripts/lib/password'
+import { addDays } from '../../shared/utils/localDays'
+import { attemptRowCopier } from '../support/attempts'
 import { Client, closeTestDb, testDb } from '../support/server'
 
 afterAll(closeTestDb)
@@ -135,6 +140,45 @@ describe('a student\'s overview and practice log', () => {
   })
 })
 
+describe('practice days in the student\'s own time zone', () => {
+  it('counts an attempt at 23:30 in Los Angeles on that evening for the student and the teacher, whatever offset a page sends', async () => {
+    const zone = 'America/Los_Angeles'
+    const stamp = Date.now()
+    // A studio of its own (a teacher, a class, one student), so other tests' class tables stay as they are.
+    const teacher = new Client()
+    const teacherEmail = `late-teacher-${stamp}@evenhand.test`
+    expect((await teacher.post('/api/auth/register', { name: 'Late Teacher', email: teacherEmail, password: 'long-enough-1' })).status).toBeLessThan(300)
+    const teacherId = (await testDb()('users').where({ email: teacherEmail }).first('id')).id
+    const email = `late-evening-${stamp}@evenhand.test`
+    const [id] = await testDb()('users').insert({ email, name: 'Late Evening', role: 'student', password_hash: await hashPassword('late-evening-1') })
+    const [classId] = await testDb()('classes').insert({ teacher_id: teacherId, name: 'Evening class', join_code: `LATE${String(stamp).slice(-8)}` })
+    await testDb()('class_members').insert({ class_id: classId, student_id: id })
+    // The browser names its zone in a cookie; signing in keeps it on the account.
+    const student = new Client()
+    expect((await student.request('POST', '/api/auth/login', { email, password: 'late-evening-1' }, undefined, { cookie: 'evenhand_tz=America/Los_Angeles' })).status).toBe(200)
+    expect((await testDb()('users').where({ id }).first('time_zone')).time_zone).toBe(zone)
+
+    // Yesterday at 23:30 on the clock in Los Angeles: already the next day in UTC. The attempt is one of
+    // Noor's, copied (without the columns MariaDB derives from it).
+    const today = new TZDate(Date.now(), zone)
+    const lateEvening = new TZDate(today.getFullYear(), today.getMonth(), today.getDate() - 1, 23, 30, 0, zone)
+    const yesterday = `${lateEvening.getFullYear()}-${String(lateEvening.getMonth() + 1).padStart(2, '0')}-${String(lateEvening.getDate()).padStart(2, '0')}`
+    expect(new Date(lateEvening.getTime()).toISOString().slice(0, 10)).not.toBe(yesterday)
+    const source = await testDb()('attempts').where('student_id', await studentId('student@evenhand.test')).first('drill_id', 'drill_version', 'tempo_bpm', 'input_device', 'events', 'score', 'result', 'engine_version')
+    await testDb()('attempts').insert({ ...(await attemptRowCopier(testDb()))(source), id: randomUUID(), student_id: id, started_at: new Date(lateEvening.getTime()) })
+
+    for (const [who, path] of [['student', '/api/me/progress?tz=0'], ['teacher', `/api/students/${id}/progress?tz=60`]] as const) {
+      const res = await (who === 'student' ? student : teacher).get<ProgressOverview>(path)
+      expect(res.status, who).toBe(200)
+      const practised = res.body.log.filter(d => d.attempts > 0)
+      expect(practised.map(d => d.day), who).toEqual([yesterday])
+      expect(res.body.log.at(-1)!.day, who).toBe(addDays(yesterday, 1))
+      // Today is not over, so yesterday's practice is a run of one day.
+      expect(res.body.streak, who).toBe(1)
+    }
+  })
+})
+
 describe('habits across drills', () => {
   it('gives per finger the mean difference from the other fingers and how often it was late, early, loud or soft', async () => {
     const noor = await studentId('student@evenhand.test')
@@ -212,6 +256,44 @@ describe('who may see a student\'s progress', () => {
     expect((await teacher.get('/api/me/progress')).status).toBe(403)
     expect((await teacher.get('/api/students/abc/habits')).status).toBe(400)
     expect((await teacher.get('/api/students/99999999/habits')).status).toBe(404)
+  })
+})
+
+describe('a student\'s attempts, a page at a time', () => {
+  it('gives the teacher each page newest first with its drill and comment count, and keeps everyone else out', async () => {
+    const noor = await studentId('student@evenhand.test')
+    const teacher = await new Client().signIn('teacher@evenhand.test')
+    const stored = await testDb()('attempts as a').join('drills as d', 'd.id', 'a.drill_id').where('a.student_id', noor)
+      .orderBy([{ column: 'a.started_at', order: 'desc' }, { column: 'a.id', order: 'desc' }]).select('a.id', 'a.score', 'd.title')
+    const comments = await testDb()('comments').whereIn('attempt_id', stored.map(a => a.id)).groupBy('attempt_id').select('attempt_id', testDb().raw('COUNT(*) AS n'))
+    const commentCount = new Map(comments.map(c => [String(c.attempt_id), Number(c.n)]))
+    expect(stored.length).toBeGreaterThan(40)
+    const seen: string[] = []
+    for (const page of [1, 2, 3]) {
+      const res = await teacher.get<StudentAttemptsPage>(`/api/students/${noor}/attempts?page=${page}`)
+      expect(res.status).toBe(200)
+      expect(res.body.total).toBe(stored.length)
+      expect(res.body.page).toBe(page)
+      const expected = stored.slice((page - 1) * res.body.perPage, page * res.body.perPage)
+      expect(res.body.attempts.map(a => a.id)).toEqual(expected.map(a => a.id))
+      expect(res.body.attempts.map(a => a.drillTitle)).toEqual(expected.map(a => a.title))
+      expect(res.body.attempts.map(a => a.score)).toEqual(expected.map(a => a.score))
+      expect(res.body.attempts.map(a => a.comments)).toEqual(expected.map(a => commentCount.get(a.id) ?? 0))
+      seen.push(...res.body.attempts.map(a => a.id))
+    }
+    expect(new Set(seen).size).toBe(seen.length)
+    const past = await teacher.get<StudentAttemptsPage>(`/api/students/${noor}/attempts?page=1000`)
+    expect(past.body.attempts).toEqual([])
+    expect((await teacher.get(`/api/students/${noor}/attempts?page=0`)).status).toBe(400)
+    const bad = await teacher.get(`/api/students/${noor}/attempts?page=two`)
+    expect(bad.status).toBe(400)
+    expect(String(bad.body.message)).toMatch(/^page:/)
+    const otherTeacher = new Client()
+    await otherTeacher.post('/api/auth/register', { name: 'Other Teacher', email: `other-a-${Date.now()}@evenhand.test`, password: 'long-enough-1' })
+    expect((await otherTeacher.get(`/api/students/${noor}/attempts`)).status).toBe(403)
+    expect((await (await new Client().signIn('theo@evenhand.test')).get(`/api/students/${noor}/attempts`)).status).toBe(403)
+    expect((await (await new Client().signIn('student@evenhand.test')).get(`/api/students/${noor}/attempts`)).status).toBe(200)
+    expect((await new Client().get(`/api/students/${noor}/attempts`)).status).toBe(401)
   })
 })
 

@@ -1,5 +1,6 @@
 // Every page as a teacher and as a student, in light and dark: axe-core's checks (WCAG 2.2 AA
 // contrast among them) with no serious or critical violation; and the layouts that must fit.
+import { createHash, randomBytes } from 'node:crypto'
 import { readFileSync } from 'node:fs'
 import { createRequire } from 'node:module'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
@@ -17,7 +18,7 @@ interface AxeViolation { id: string, impact: string | null, help: string, nodes:
 let teacher: BrowserSession
 let student: BrowserSession
 let anonymous: BrowserSession
-let paths: { classId: number, attemptId: string, drillId: number, ownDrillId: number, setId: number }
+let paths: { classId: number, attemptId: string, drillId: number, ownDrillId: number, setId: number, studentId: number, invitationToken: string }
 
 beforeAll(async () => {
   const db = testDb()
@@ -26,7 +27,12 @@ beforeAll(async () => {
   const klass = await db('classes').where({ name: 'Tuesday Starters' }).first('id')
   const set = await db('drill_sets').orderBy('id').first('id')
   const own = await db('drills as d').join('users as u', 'u.id', 'd.owner_id').where('u.email', 'teacher@evenhand.test').orderBy('d.id').first('d.id')
-  paths = { classId: Number(klass.id), attemptId: String(attempt.id), drillId: Number(attempt.drill_id), ownDrillId: Number(own.id), setId: Number(set.id) }
+  // An invitation waiting to be accepted, its link's token stored as its SHA-256 like the app stores it.
+  const invitationToken = randomBytes(32).toString('base64url')
+  const teacherRow = await db('users').where({ email: 'teacher@evenhand.test' }).first('id')
+  const [invitationId] = await db('invitations').insert({ class_id: klass.id, email: `invited-look-${Date.now()}@evenhand.test`, invited_by: teacherRow.id, expires_at: new Date(Date.now() + 86_400_000) })
+  await db('one_time_tokens').insert({ kind: 'invitation', token_hash: createHash('sha256').update(invitationToken).digest('hex'), subject: String(invitationId), expires_at: new Date(Date.now() + 86_400_000) })
+  paths = { classId: Number(klass.id), attemptId: String(attempt.id), drillId: Number(attempt.drill_id), ownDrillId: Number(own.id), setId: Number(set.id), studentId: Number(noor.id), invitationToken }
   ;[teacher, student, anonymous] = await Promise.all([openBrowser(), openBrowser(), openBrowser()])
   await signInAs(teacher.page, 'teacher@evenhand.test')
   await teacher.page.waitForURL(/\/teacher$/)
@@ -53,14 +59,26 @@ function describeViolations(found: AxeViolation[]): string[] {
   return found.flatMap(v => v.nodes.slice(0, 3).map(n => `${v.id}: ${n.target.join(' ')} — ${n.failureSummary?.split('\n')[1]?.trim() ?? v.help}`))
 }
 
+/** What Nuxt's `showError` does in the browser when a fault of ours reaches the top: error.vue takes the page. */
+async function showServerFault(page: Page): Promise<void> {
+  await page.evaluate(() => {
+    const app = (document.querySelector('#__nuxt') as unknown as { __vue_app__: { $nuxt: { payload: { error: unknown } } } }).__vue_app__
+    app.$nuxt.payload.error = { statusCode: 500, statusMessage: 'Server Error', message: 'Server Error' }
+  })
+  await page.getByRole('heading', { name: 'Something went wrong on our side' }).waitFor()
+}
+
 describe('every page passes axe-core in light and dark', () => {
-  const pagesOf = (): [string, () => BrowserSession, string][] => [
+  const pagesOf = (): [string, () => BrowserSession, string, ((page: Page) => Promise<void>)?][] => [
     ['sign-in', () => anonymous, '/login'],
     ['sign-up', () => anonymous, '/signup'],
     ['forgotten password', () => anonymous, '/forgot-password'],
     ['new password', () => anonymous, '/reset-password?token=x'],
     ['joining a class', () => anonymous, '/join'],
+    ['an invitation', () => anonymous, `/invitation?token=${paths.invitationToken}`, async page => void await page.getByRole('button', { name: 'Join the class' }).waitFor()],
+    ['an invitation that cannot be used', () => anonymous, '/invitation?token=not-a-real-token-but-long-enough', async page => void await page.getByTestId('invitation-problem').waitFor()],
     ['a missing page', () => student, '/no-such-page'],
+    ['a fault of ours (500)', () => student, '/student', showServerFault],
     ['teacher home', () => teacher, '/teacher'],
     ['classes', () => teacher, '/teacher/classes'],
     ['a class', () => teacher, `/teacher/classes/${paths.classId}`],
@@ -68,6 +86,7 @@ describe('every page passes axe-core in light and dark', () => {
     ['a drill', () => teacher, `/teacher/drills/${paths.drillId}`],
     ['drill editor', () => teacher, '/teacher/drills/new'],
     ['drill editor, editing', () => teacher, `/teacher/drills/new?edit=${paths.ownDrillId}`],
+    ['a student, as the teacher', () => teacher, `/teacher/students/${paths.studentId}`],
     ['drill sets', () => teacher, '/teacher/sets'],
     ['a drill set', () => teacher, `/teacher/sets/${paths.setId}`],
     ['attempt, as the teacher', () => teacher, `/attempts/${paths.attemptId}`],
@@ -83,16 +102,17 @@ describe('every page passes axe-core in light and dark', () => {
     it(`has no serious or critical violation on any page, ${scheme}`, async () => {
       const failures: string[] = []
       const checked: string[] = []
-      for (const [name, who, path] of pagesOf()) {
+      for (const [name, who, path, then] of pagesOf()) {
         const { page } = who()
         await page.emulateMedia({ colorScheme: scheme })
         await page.goto(path, { waitUntil: 'networkidle' })
+        await then?.(page)
         // The report's disclosure open too, so what it hides is checked as well.
         await page.locator('details').evaluateAll(all => all.forEach(d => d.setAttribute('open', '')))
         checked.push(name)
         failures.push(...describeViolations(await violations(page)).map(f => `${name}: ${f}`))
       }
-      expect(checked).toHaveLength(22)
+      expect(checked).toHaveLength(26)
       expect(failures).toEqual([])
     })
   }

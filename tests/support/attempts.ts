@@ -3,6 +3,7 @@ import { randomUUID } from 'node:crypto'
 import { Note } from 'tonal'
 import type { DrillNote } from '../../shared/types/drill'
 import type { PlayedEvent } from '../../shared/types/attempt'
+import type { Knex } from 'knex'
 import type { Client } from './server'
 
 export interface DrillReply { drill: { id: number, version: number, tempoBpm: number, notes: DrillNote[] }, targets: { assignmentId: number, targetTempoBpm: number | null }[] }
@@ -36,4 +37,16 @@ export function attemptBody(drill: DrillReply, overrides: Record<string, unknown
     events: play(drill.drill.notes, 72),
     ...overrides,
   }
+}
+
+/**
+ * Makes stored attempt rows fit to insert again: JSON columns (which mysql2 may hand back parsed) as text, and
+ * without the columns MariaDB derives from each grade (migration 84), which refuse a value of their own.
+ */
+export async function attemptRowCopier(db: Knex): Promise<(row: Record<string, unknown>) => Record<string, unknown>> {
+  const [columns] = await db.raw('SELECT COLUMN_NAME AS name FROM information_schema.COLUMNS WHERE TABLE_SCHEMA = DATABASE() AND TABLE_NAME = \'attempts\' AND IS_GENERATED = \'ALWAYS\'')
+  const generated = new Set((columns as { name: string }[]).map(c => c.name))
+  return row => Object.fromEntries(Object.entries(row)
+    .filter(([key]) => !generated.has(key))
+    .map(([key, v]) => [key, v !== null && typeof v === 'object' && !(v instanceof Date) ? JSON.stringify(v) : v]))
 }

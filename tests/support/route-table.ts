@@ -327,6 +327,7 @@ export const ROUTES: Record<string, RouteRow> = {
     shows: { text: w => w.drillTitle, to: ['ownStudent'] },
   },
   'GET /api/students/[id]/progress': { request: w => ({ path: `/api/students/${w.id('ownStudent')}/progress` }), expect: [401, 200, 200, 403, 200, 403, 403] },
+  'GET /api/students/[id]/attempts': { request: w => ({ path: `/api/students/${w.id('ownStudent')}/attempts` }), expect: [401, 200, 200, 403, 200, 403, 403] },
   'GET /api/students/[id]/habits': { request: w => ({ path: `/api/students/${w.id('ownStudent')}/habits` }), expect: [401, 200, 200, 403, 200, 403, 403] },
   'PUT /api/students/[id]/guardian': { request: w => ({ path: `/api/students/${w.id('ownStudent')}/guardian`, body: { guardianEmail: 'guardian@example.org' } }), expect: [401, 200, 200, 404, 403, 403, 403] },
   'POST /api/students/[id]/reset-link': { request: w => ({ path: `/api/students/${w.id('ownStudent')}/reset-link` }), expect: [401, 202, 202, 404, 403, 403, 403] },
