@@ -114,7 +114,7 @@ describe('every page passes axe-core in light and dark', () => {
       }
       expect(checked).toHaveLength(26)
       expect(failures).toEqual([])
-    })
+    }, 240_000)
   }
 })
 
