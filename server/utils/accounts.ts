@@ -1,5 +1,4 @@
 // Account changes: name, guardian, password, and those that go through an e-mailed link (password resets, e-mail changes).
-import { z } from 'zod'
 import type { Knex } from 'knex'
 import type { User } from '#auth-utils'
 import type { Account, Role } from '#shared/types/account'
@@ -51,8 +50,6 @@ export async function resetPassword(token: string, password: string): Promise<{ 
     return { id: Number(user.id), email: user.email, name: user.name, role: user.role }
   })
 }
-
-export const StudentParams = z.object({ id: z.coerce.number({ error: 'not a student id' }).int().positive().max(Number.MAX_SAFE_INTEGER) })
 
 /** The account as its owner sees it on the settings page. */
 export async function loadAccount(db: Knex, userId: number): Promise<Account> {

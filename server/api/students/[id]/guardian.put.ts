@@ -1,4 +1,5 @@
 import { GuardianInput } from '#shared/types/account'
+import { StudentParams } from '#shared/types/progress'
 
 // A teacher sets or clears the guardian address of one of their own students.
 export default defineEventHandler(async (event) => {

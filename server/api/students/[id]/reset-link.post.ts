@@ -1,3 +1,5 @@
+import { StudentParams } from '#shared/types/progress'
+
 // A teacher sends one of their own students a link to choose a new password.
 export default defineEventHandler(async (event) => {
   const teacher = await requireRole(event, 'teacher', 'admin')
