@@ -160,4 +160,52 @@ describe('layouts that fit', () => {
     expect((await page.getByTestId('keyboard').boundingBox())!.width).toBeGreaterThan(500)
     await page.setViewportSize({ width: 1280, height: 800 })
   })
+
+  it('fits the drill, the keyboard and the start on a phone held sideways without scrolling', async () => {
+    const { page } = student
+    await page.setViewportSize({ width: 844, height: 390 })
+    await page.goto(`/practice/${paths.drillId}`)
+    await page.getByTestId('keyboard').waitFor()
+    for (const id of ['note-strip', 'keyboard', 'start']) {
+      const box = (await page.getByTestId(id).boundingBox())!
+      expect(box.y, id).toBeGreaterThanOrEqual(0)
+      expect(box.y + box.height, id).toBeLessThanOrEqual(390)
+    }
+    // The keys still take the width: white keys a finger wide, not a thumbnail.
+    expect((await page.getByTestId('keyboard').boundingBox())!.width).toBeGreaterThan(500)
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(844)
+    expect(await page.getByRole('complementary', { name: 'Practise safely' }).isVisible()).toBe(true)
+    await page.setViewportSize({ width: 1280, height: 800 })
+  })
+
+  it('draws the computer-key map on a phone with no keycap over another and every label inside its cap', async () => {
+    const { page } = student
+    await page.setViewportSize({ width: 390, height: 844 })
+    await page.goto(`/practice/${paths.drillId}`)
+    const before = await page.locator('#play-with').inputValue()
+    await page.locator('#play-with').selectOption({ label: 'The computer keys' })
+    await page.getByTestId('key-map').scrollIntoViewIfNeeded()
+    const caps = await page.getByTestId('key-map').locator('.cap').evaluateAll(all => all.map((el) => {
+      const r = el.getBoundingClientRect()
+      const inner = [...el.children].map(c => c.getBoundingClientRect())
+      return { label: el.textContent!.trim(), box: { x: r.x, y: r.y, w: r.width, h: r.height }, inner: inner.map(c => ({ x: c.x, y: c.y, w: c.width, h: c.height })) }
+    }))
+    // Every row of the US keyboard, the mapped keys and the two octave keys.
+    expect(caps.length).toBeGreaterThanOrEqual(23)
+    type Box = { x: number, y: number, w: number, h: number }
+    const overlap = (a: Box, b: Box): number => Math.max(0, Math.min(a.x + a.w, b.x + b.w) - Math.max(a.x, b.x)) * Math.max(0, Math.min(a.y + a.h, b.y + b.h) - Math.max(a.y, b.y))
+    const crossing: string[] = []
+    caps.forEach((a, i) => caps.slice(i + 1).forEach((b) => {
+      if (overlap(a.box, b.box) > 0) crossing.push(`${a.label} × ${b.label}`)
+    }))
+    expect(crossing).toEqual([])
+    const spilling = caps.filter(c => c.inner.some(t => t.x < c.box.x - 0.5 || t.y < c.box.y - 0.5 || t.x + t.w > c.box.x + c.box.w + 0.5 || t.y + t.h > c.box.y + c.box.h + 0.5)
+      || (c.inner.length === 2 && overlap(c.inner[0]!, c.inner[1]!) > 0))
+    expect(spilling.map(c => c.label)).toEqual([])
+    const map = (await page.getByTestId('key-map').boundingBox())!
+    expect(map.x).toBeGreaterThanOrEqual(0)
+    expect(map.x + map.width).toBeLessThanOrEqual(390)
+    await page.locator('#play-with').selectOption(before)
+    await page.setViewportSize({ width: 1280, height: 800 })
+  })
 })
