@@ -11,7 +11,8 @@ export default defineConfig({
         test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node' },
       },
       await defineVitestProject({
-        test: { name: 'nuxt', include: ['tests/nuxt/**/*.test.ts'], environment: 'nuxt' },
+        // Starting the Nuxt environment can outlast vitest's 10 s default on a busy machine.
+        test: { name: 'nuxt', include: ['tests/nuxt/**/*.test.ts'], environment: 'nuxt', hookTimeout: 60_000 },
       }),
       {
         test: {

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Client, closeTestDb, testDb } from '../support/server'
 import { newClass, newStudent, newTeacher, publicDrillIds } from '../support/studio'
+import { storedResult } from '../support/attempts'
 
 afterAll(closeTestDb)
 
@@ -70,7 +71,7 @@ describe('assignments', () => {
     const res = await teacher.post('/api/assignments', { drillSetId: setId, studentId: student.id, dueOn: dayIn('UTC', 5) })
     expect(res.status).toBe(201)
     const drill = await db('drills').where({ id: drills[0] }).first('version')
-    const attempt = (score: number, tempo: number, at: string) => ({ id: crypto.randomUUID(), student_id: student.id, drill_id: drills[0], drill_version: drill.version, assignment_id: res.body.id, started_at: new Date(at), tempo_bpm: tempo, input_device: 'screen', events: '[]', score, result: '{}', engine_version: 'test' })
+    const attempt = (score: number, tempo: number, at: string) => ({ id: crypto.randomUUID(), student_id: student.id, drill_id: drills[0], drill_version: drill.version, assignment_id: res.body.id, started_at: new Date(at), tempo_bpm: tempo, input_device: 'screen', events: '[]', score, result: storedResult(), engine_version: 'test' })
     await db('attempts').insert([attempt(82, 72, '2026-11-30T10:00:00Z'), attempt(64, 80, '2026-12-01T10:00:00Z')])
     const mine = await student.client.get<{ assignments: Assignment[] }>('/api/me/assignments')
     const own = mine.body.assignments.find(a => a.id === res.body.id)!
@@ -95,7 +96,7 @@ describe('assignments', () => {
     expect((await teacher.request('PATCH', `/api/assignments/${body.id}`, { dueOn: dayIn('UTC', -2) })).status).toBe(400)
     const drill = await db('drills').where({ id: drills[1] }).first('version')
     const attemptId = crypto.randomUUID()
-    await db('attempts').insert({ id: attemptId, student_id: student.id, drill_id: drills[1], drill_version: drill.version, assignment_id: body.id, started_at: new Date(), tempo_bpm: 60, input_device: 'screen', events: '[]', score: 40, result: '{}', engine_version: 'test' })
+    await db('attempts').insert({ id: attemptId, student_id: student.id, drill_id: drills[1], drill_version: drill.version, assignment_id: body.id, started_at: new Date(), tempo_bpm: 60, input_device: 'screen', events: '[]', score: 40, result: storedResult(), engine_version: 'test' })
     expect((await teacher.request('DELETE', `/api/assignments/${body.id}`)).status).toBe(204)
     expect((await student.client.get<{ assignments: Assignment[] }>('/api/me/assignments')).body.assignments.map(a => a.id)).not.toContain(body.id)
     expect(await db('attempts').where({ id: attemptId }).first('student_id', 'assignment_id')).toEqual({ student_id: student.id, assignment_id: null })

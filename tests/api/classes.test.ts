@@ -2,6 +2,7 @@ import { afterAll, describe, expect, it } from 'vitest'
 import { Client, closeTestDb, testDb } from '../support/server'
 import { newClass, newStudent, newTeacher, publicDrillIds, uniqueEmail } from '../support/studio'
 import { JOIN_CODE_ALPHABET } from '../../shared/types/classes'
+import { storedResult } from '../support/attempts'
 
 afterAll(closeTestDb)
 
@@ -88,7 +89,7 @@ describe('classes', () => {
     const drill = await db('drills').where({ id: drillId }).first('version')
     const startedAt = new Date('2026-11-20T17:00:00.000Z')
     const attemptId = crypto.randomUUID()
-    await db('attempts').insert({ id: attemptId, student_id: student.id, drill_id: drillId, drill_version: drill.version, started_at: startedAt, tempo_bpm: 60, input_device: 'screen', events: '[]', score: 50, result: '{}', engine_version: 'test' })
+    await db('attempts').insert({ id: attemptId, student_id: student.id, drill_id: drillId, drill_version: drill.version, started_at: startedAt, tempo_bpm: 60, input_device: 'screen', events: '[]', score: 50, result: storedResult(), engine_version: 'test' })
     const detail = await teacher.get<{ class: Detail }>(`/api/classes/${cls.id}`)
     expect(detail.body.class.students).toMatchObject([{ id: student.id, lastPracticeAt: startedAt.toISOString() }])
     const removed = await teacher.request('DELETE', `/api/classes/${cls.id}/students/${student.id}`)

@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto'
 import { parseMidi } from 'midi-file'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Client, closeTestDb, testDb } from '../support/server'
+import { storedResult } from '../support/attempts'
 
 afterAll(closeTestDb)
 
@@ -212,7 +213,7 @@ describe('editing and versions', () => {
     const student = await testDb()('users').where('email', 'theo@evenhand.test').first()
     await testDb()('attempts').insert({
       id: randomUUID(), student_id: student.id, drill_id: id, drill_version: 1, started_at: new Date(), tempo_bpm: 80,
-      input_device: 'screen', events: '[]', score: 0, result: '{}', engine_version: 'test',
+      input_device: 'screen', events: '[]', score: 0, result: storedResult(), engine_version: 'test',
     })
 
     const details = await teacher.request<{ drill: Drill }>('PATCH', `/api/drills/${id}`, { title: 'Versioned, renamed', tags: ['renamed'] })
