@@ -219,7 +219,7 @@ interface HabitFigures {
 export async function studentHabits(db: Knex, viewer: User, student: StudentRef, range: ProgressRange, now = Date.now()): Promise<HabitsView> {
   const from = since(range, now)
   // `habit_figures` is MariaDB's generated column of the arrays below, taken from each stored grade (migration 84).
-  const q = db('attempts').where('student_id', student.id).orderBy('started_at', 'desc').limit(HABIT_ATTEMPTS)
+  const q = db('attempts').where('student_id', student.id).orderBy([{ column: 'started_at', order: 'desc' }, { column: 'id', order: 'desc' }]).limit(HABIT_ATTEMPTS)
     .select('drill_id', 'drill_version', 'habit_figures')
   if (from) q.where('started_at', '>=', from)
   const rows: Record<string, unknown>[] = await q
