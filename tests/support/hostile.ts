@@ -23,6 +23,7 @@ const CLAIM_KEYS = ['id', 'role', 'isAdmin', 'studentId', 'student_id', 'teacher
 const QUERY_KEYS = ['drill', 'student', 'limit', 'cursor', 'range', 'tz', 'token', 'archived', 'q', 'hand', 'level', 'kind', 'sort', 'id', '__proto__', 'constructor']
 const FIELD_KEYS = ['part', 'staff', 'track', 'hand', 'measures', '__proto__', 'file']
 
+// At most three changes stack up, so three of the deepest stay within what JSON.stringify can recurse into.
 const deep = (depth: number): unknown => {
   let value: unknown = 1
   for (let i = 0; i < depth; i++) value = [value]
@@ -48,7 +49,7 @@ export const hostileString: fc.Arbitrary<string> = fc.oneof(
 /** Any JSON value a hostile client could send where one value is expected. */
 export const hostileValue: fc.Arbitrary<unknown> = fc.oneof(
   hostileString,
-  fc.constantFrom<unknown>(...NUMBERS, null, true, false, [], {}, deep(60), deep(3000)),
+  fc.constantFrom<unknown>(...NUMBERS, null, true, false, [], {}, deep(60), deep(1000)),
   fc.double(),
   fc.integer(),
   fc.bigInt({ min: -(2n ** 70n), max: 2n ** 70n }).map(n => Number(n)),
@@ -102,8 +103,14 @@ export function alike(original: unknown, n: number): unknown {
   if (typeof original === 'number') return pick([...NUMBERS, ...NUMBER_LIKE])
   if (typeof original === 'string') return pick([...UNICODE, ...NUMBER_LIKE, MARKER + 'x'.repeat(10_000)])
   if (typeof original === 'boolean') return pick(['true', 1, 0, null, 'yes'])
-  if (Array.isArray(original)) return pick([[], [original], Array.from({ length: 20_000 }, () => original[0] ?? 1), {}, null])
-  return pick([null, [], 'text', 0, deep(3000)])
+  if (Array.isArray(original)) {
+    // Copies, not references to one element that a later change inside one would reach in all; as many as make
+    // about 3 MB (past the 2 MB body limit) and at most 20,000, as a long list of large elements would not fit in memory.
+    const first = original[0] ?? 1
+    const copies = Math.max(1, Math.min(20_000, Math.floor(3_000_000 / ((JSON.stringify(first)?.length ?? 1) + 1))))
+    return pick([[], [original], Array.from({ length: copies }, () => structuredClone(first)), {}, null])
+  }
+  return pick([null, [], 'text', 0, deep(1000)])
 }
 
 type Path = (string | number)[]
@@ -145,7 +152,11 @@ export interface HostileRequest extends RouteRequest {
   contentType?: string
 }
 
-/** The request with each change made in turn; `template` names the path's parameters (`/api/drills/[id]`). */
+/**
+ * The request with each change made in turn; `template` names the path's parameters (`/api/drills/[id]`).
+ * Generated values are placed as copies: fast-check hands out its constants (a 20,000-element list) again and again,
+ * and a later change inside a shared one would grow it with every run until a body no longer fits in memory.
+ */
 export function applyMutations(req: RouteRequest, template: string, list: Mutation[]): HostileRequest {
   const out: HostileRequest = { ...req, body: structuredClone(req.body), upload: req.upload && { file: { ...req.upload.file }, fields: { ...req.upload.fields } } }
   const [pathOnly, search = ''] = out.path.split('?') as [string, string?]
@@ -160,7 +171,7 @@ export function applyMutations(req: RouteRequest, template: string, list: Mutati
       const all = places(out.body).filter(at => !m.shallow || at.length === 1)
       const at = all.length ? all[m.pick % all.length]! : []
       const original = at.reduce<unknown>((n, step) => (n as Record<string | number, unknown>)[step], out.body)
-      out.body = setAt(out.body, at, m.alike === undefined ? m.value : alike(original, m.alike))
+      out.body = setAt(out.body, at, m.alike === undefined ? structuredClone(m.value) : alike(original, m.alike))
     }
     else if (m.kind === 'key') {
       const objects = places(out.body).filter((at) => {
@@ -170,9 +181,9 @@ export function applyMutations(req: RouteRequest, template: string, list: Mutati
       if (!objects.length) out.body = {}
       const at = objects.length ? objects[m.pick % objects.length]! : []
       const node = at.reduce<unknown>((n, step) => (n as Record<string | number, unknown>)[step], out.body) as Record<string, unknown>
-      setOwn(node, m.key, m.value)
+      setOwn(node, m.key, structuredClone(m.value))
     }
-    else if (m.kind === 'body') out.body = m.value
+    else if (m.kind === 'body') out.body = structuredClone(m.value)
     else if (m.kind === 'raw') out.raw = m.text
     else if (m.kind === 'type') out.contentType = m.value
     else if (m.kind === 'file' && out.upload) {
