@@ -161,9 +161,9 @@ export async function progressOverview(db: Knex, student: StudentRef, zone: DayZ
     db('attempts as t').join('drills as d', 'd.id', 't.drill_id').where('t.student_id', student.id)
       .groupBy('t.drill_id', 'd.title').orderBy('last_at', 'desc')
       .select('t.drill_id', 'd.title', db.raw('COUNT(*) AS n'), db.raw('MAX(t.score) AS best'),
-        db.raw('SUBSTRING_INDEX(GROUP_CONCAT(t.score ORDER BY t.started_at DESC), \',\', 1) AS latest'),
+        db.raw('SUBSTRING_INDEX(GROUP_CONCAT(t.score ORDER BY t.started_at DESC, t.id DESC), \',\', 1) AS latest'),
         db.raw('MAX(t.played_bpm) AS best_bpm'),
-        db.raw('SUBSTRING_INDEX(GROUP_CONCAT(COALESCE(t.played_bpm, \'\') ORDER BY t.started_at DESC), \',\', 1) AS latest_bpm'),
+        db.raw('SUBSTRING_INDEX(GROUP_CONCAT(COALESCE(t.played_bpm, \'\') ORDER BY t.started_at DESC, t.id DESC), \',\', 1) AS latest_bpm'),
         db.raw('MAX(t.started_at) AS last_at')),
     db('attempts').where('student_id', student.id).where('started_at', '>=', new Date(logFrom))
       .groupByRaw('1').select(
