@@ -1,7 +1,8 @@
 // `npm run mail:weekly [-- --week YYYY-MM-DD]`: queues the guardians' weekly summaries now, for the last
-// complete week (Monday to Sunday, UTC) or the week holding the given day, in the database named by
-// NUXT_DB_*; links start with NUXT_APP_URL. The running app's outbox worker sends them. A week already
-// queued for a student is skipped, so running this twice sends nothing twice.
+// complete week (Monday to Sunday in each student's own time zone, UTC when unknown) or the week holding
+// the given day, in the database named by NUXT_DB_*; links start with NUXT_APP_URL. The running app's
+// outbox worker sends them. A week already queued for a student is skipped, so running this twice sends
+// nothing twice. `weekStart` in the output is the week asked for, or the last one complete in UTC.
 import { parseArgs } from 'node:util'
 import knex from 'knex'
 import config from '../knexfile'
@@ -16,7 +17,7 @@ const db = knex(config)
 try {
   const run = await queueWeeklySummaries(db, {
     appUrl: process.env.NUXT_APP_URL ?? 'http://127.0.0.1:3000',
-    weekStart: values.week ? new Date(`${values.week}T12:00:00Z`) : undefined,
+    week: values.week,
   })
   console.log(JSON.stringify(run))
   console.error(`week of ${run.weekStart}: ${run.queued} summaries queued, ${run.alreadyQueued} were already queued`)

@@ -1,10 +1,13 @@
 // The guardians' weekly summary, queued by `npm run mail:weekly` and read back from the local mail server.
 import { execFile } from 'node:child_process'
+import { randomUUID } from 'node:crypto'
 import { join } from 'node:path'
 import { promisify } from 'node:util'
 import { afterAll, describe, expect, it } from 'vitest'
 import { baseUrl, Client, closeTestDb, testDb } from '../support/server'
 import { linkIn, waitForMail } from '../support/mail'
+import { attemptRowCopier } from '../support/attempts'
+import { hashPassword } from '../../scripts/lib/password'
 
 afterAll(closeTestDb)
 
@@ -32,7 +35,8 @@ describe('the weekly summary', () => {
     const week = monday.toISOString().slice(0, 10)
     const ada = await testDb()('users').where({ email: 'ada@evenhand.test' }).first('id', 'guardian_email')
     const guardian = `ada-guardian-${Date.now()}@example.org`
-    await testDb()('users').where({ id: ada.id }).update({ guardian_email: guardian, guardian_summary_stopped_at: null })
+    // Ada's days are UTC days here; the next test puts a student in another zone.
+    await testDb()('users').where({ id: ada.id }).update({ guardian_email: guardian, guardian_summary_stopped_at: null, time_zone: null })
 
     const attempts = await testDb()('attempts').where('student_id', ada.id)
       .where('started_at', '>=', monday).where('started_at', '<', new Date(monday.getTime() + 7 * DAY_MS))
@@ -84,6 +88,32 @@ describe('the weekly summary', () => {
     const next = new Date(monday.getTime() + 7 * DAY_MS).toISOString().slice(0, 10)
     await mailWeekly(next)
     expect(await testDb()('weekly_summaries').where({ student_id: ada.id, week_start: next }).first()).toBeUndefined()
+  })
+
+  it('counts the week and its days on the clock of the student\'s own zone', async () => {
+    // The week of Monday 1 June 2026 in Los Angeles (UTC−7 in summer; the zone's rule, from memory)
+    // runs from 07:00 UTC that Monday to 07:00 UTC on 8 June.
+    const stamp = Date.now()
+    const guardian = `west-guardian-${stamp}@example.org`
+    const [id] = await testDb()('users').insert({ email: `west-${stamp}@evenhand.test`, name: 'Wes Coastal', role: 'student', password_hash: await hashPassword('west-coast-1'), guardian_email: guardian, time_zone: 'America/Los_Angeles' })
+    const source = await testDb()('attempts').where('student_id', (await testDb()('users').where({ email: 'student@evenhand.test' }).first('id')).id)
+      .first('drill_id', 'drill_version', 'tempo_bpm', 'input_device', 'events', 'score', 'result', 'engine_version')
+    const copy = await attemptRowCopier(testDb())
+    for (const at of [
+      '2026-06-01T06:30:00Z', // Sunday 31 May, 23:30 on the clock there: the week before
+      '2026-06-01T08:00:00Z', // Monday 1 June, 01:00
+      '2026-06-08T05:00:00Z', // Sunday 7 June, 22:00: in UTC already the next week
+      '2026-06-08T07:30:00Z', // Monday 8 June, 00:30: the next week
+    ]) await testDb()('attempts').insert({ ...copy(source), id: randomUUID(), student_id: id, started_at: new Date(at) })
+
+    expect((await mailWeekly('2026-06-03')).weekStart).toBe('2026-06-01')
+    const [mail] = await waitForMail(guardian)
+    const text = mail!.parsed.text!
+    expect(text).toContain('with 2 attempts in all.')
+    expect(text).toMatch(/on 2 days/)
+    expect(text).toMatch(/Monday 1 Jun: [^\n]*, 1 attempt\n/)
+    expect(text).toMatch(/Sunday 7 Jun: [^\n]*, 1 attempt\n/)
+    expect(text).toMatch(/Tuesday 2 Jun: no practice\n/)
   })
 
   it('answers 404 for an unknown unsubscribe link and 400 for a malformed one', async () => {
