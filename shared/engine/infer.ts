@@ -39,7 +39,7 @@
 import { cheapestPath, optionPosteriors, type Lattice } from './chain'
 import { costModel, type CostModel } from './costs'
 import { PERFORMANCE_WEIGHTS, type RuleWeights } from './ergonomics'
-import { fitsPosition, touchPositionStarts } from './positions'
+import { fitsComfortably, touchPositionStarts } from './positions'
 import { CHORD_WINDOW_MS } from './align'
 import { chosenTouches, lineLattice, withOptionPenalty, type LineLattice } from './lattice'
 import { sequencePeriod, sharedPattern } from './suggest'
@@ -171,9 +171,9 @@ function moveOf(table: SpanRow[][], from: Touch[], to: Touch[]): Move {
     if (s < row[MIN_PRAC] || s > row[MAX_PRAC]) return 'shift'
     // A pass of the thumb, or a reach beyond the comfortable span: the hand may stay on the keys, with a small delay.
     if ((a.f === 1 || b.f === 1) && s < 0) return 'crossing'
-    if (!fitsPosition(table, a, b)) return 'crossing'
+    if (!fitsComfortably(table, a, b)) return 'crossing'
   }
-  return to.every(t => from.every(h => fitsPosition(table, h, t))) ? 'inPosition' : 'shift'
+  return to.every(t => from.every(h => fitsComfortably(table, h, t))) ? 'inPosition' : 'shift'
 }
 
 const MOVES: readonly Move[] = ['inPosition', 'crossing', 'shift', 'sameFinger', 'repeat']
@@ -238,7 +238,7 @@ function tripleNoteMoves(table: SpanRow[][], d1: number, d2: number): Uint8Array
       for (const fb of FINGERS) {
         for (const fc of FINGERS) {
           let move = second[(fb - 1) * 5 + fc - 1]!
-          if (move === IN_POSITION && first[(fa - 1) * 5 + fb - 1] === IN_POSITION && !fitsPosition(table, { f: fa, k: 0 }, { f: fc, k: a + b })) move = SHIFT
+          if (move === IN_POSITION && first[(fa - 1) * 5 + fb - 1] === IN_POSITION && !fitsComfortably(table, { f: fa, k: 0 }, { f: fc, k: a + b })) move = SHIFT
           moves[((fa - 1) * 5 + fb - 1) * 5 + fc - 1] = move
         }
       }

@@ -1,20 +1,34 @@
 // Hand positions: where a fingering makes the hand move to a new position.
-import { MAX_COMF, MIN_COMF, pairSpan, spanTable, type SpanRow } from './spans'
+import { MAX_COMF, MAX_PRAC, MIN_COMF, MIN_PRAC, pairSpan, spanTable, type SpanRow } from './spans'
 import { lineTouches, type Touch } from './touches'
 import type { Finger, Hand, HandSize, LineItem } from './types'
 
-/** Two touches fit one hand position: different fingers in key order within the comfortable span, or one finger on one key. */
-export function fitsPosition(table: SpanRow[][], a: Touch, b: Touch): boolean {
+function fitsBetween(table: SpanRow[][], a: Touch, b: Touch, min: number, max: number): boolean {
   if (a.f === b.f) return a.k === b.k
   const { row, s } = pairSpan(table, a.f, a.k, b.f, b.k)
-  return s > 0 && s >= row[MIN_COMF] && s <= row[MAX_COMF]
+  return s > 0 && s >= row[min]! && s <= row[max]!
+}
+
+/**
+ * Two touches fit one hand position: different fingers in key order within the practical span (the widest
+ * the hand stretches without moving, Parncutt et al.'s MaxPrac), or one finger on one key. A stretch beyond
+ * the comfortable span is a cost of the fingering, not a new position: a broken triad with its octave
+ * (right hand C E G C, 1 2 3 5) is one hand position (common practice).
+ */
+export function fitsPosition(table: SpanRow[][], a: Touch, b: Touch): boolean {
+  return fitsBetween(table, a, b, MIN_PRAC, MAX_PRAC)
+}
+
+/** Two touches fit one hand position without a stretch: in key order within the comfortable span. */
+export function fitsComfortably(table: SpanRow[][], a: Touch, b: Touch): boolean {
+  return fitsBetween(table, a, b, MIN_COMF, MAX_COMF)
 }
 
 /**
  * Indices of the items where a new hand position begins for a given fingering (first item not counted).
  * A hand position is the set of touches since the last change; a note starts a new one when it does
  * not fit with every touch of the current one (a crossing, the same finger on another key, or a span
- * beyond the comfortable range), which is how teachers mark a "new position" in a drill.
+ * beyond the practical range), which is how teachers mark a "new position" in a drill.
  */
 export function positionStarts(hand: Hand, items: LineItem[], fingers: (Finger | Finger[])[], handSize: HandSize = 'medium'): number[] {
   return touchPositionStarts(lineTouches(hand, items, fingers), spanTable(handSize))

@@ -130,9 +130,21 @@ describe('positionStarts', () => {
     expect(positionStarts('right', [[60, 64, 67], 62], [[1, 3, 5], 2])).toEqual([])
   })
 
-  it('uses a smaller comfortable reach for a small hand', () => {
-    // 1–5 over an octave: within MaxComf 13 for a medium hand, beyond 13 × 0.8 for a small one.
-    expect(positionStarts('right', [60, 72], [1, 5], 'medium')).toEqual([])
-    expect(positionStarts('right', [60, 72], [1, 5], 'small')).toEqual([1])
+  it('uses a smaller reach for a small hand', () => {
+    // 1–5 over a ninth (14 semitones): within MaxPrac 15 for a medium hand, beyond 15 × 0.8 = 12 for a small one
+    // (Parncutt et al. 1997, Table 1, from memory; the hand-size factor is our own).
+    expect(positionStarts('right', [60, 74], [1, 5], 'medium')).toEqual([])
+    expect(positionStarts('right', [60, 74], [1, 5], 'small')).toEqual([1])
+  })
+
+  it('holds a stretch the hand reaches without moving as one position, and moves beyond it', () => {
+    // A broken triad with its octave is one hand position (common practice): right hand C E G C 1 2 3 5,
+    // left hand C E G C 5 4 2 1, and the minor triad A C E 1 2 3, whose 2–3 major third is beyond the
+    // comfortable span (3) but within the practical one (5; Parncutt et al. 1997, Table 1, from memory).
+    expect(positionStarts('right', [60, 64, 67, 72], [1, 2, 3, 5])).toEqual([])
+    expect(positionStarts('left', [48, 52, 55, 60], [5, 4, 2, 1])).toEqual([])
+    expect(positionStarts('right', [57, 60, 64], [1, 2, 3])).toEqual([])
+    // 2–3 over a fourth (6) is beyond MaxPrac 5: the hand must move.
+    expect(positionStarts('right', [60, 62, 68], [1, 2, 3])).toEqual([2])
   })
 })

@@ -7,6 +7,7 @@ import { checkFingering } from '../../../shared/engine/check'
 import { ENGINE_VERSION, gradeAttempt } from '../../../shared/engine/grade'
 import { suggestHands } from '../../../shared/engine/hands'
 import { inferFingering } from '../../../shared/engine/infer'
+import { positionStarts } from '../../../shared/engine/positions'
 import { suggestFingering } from '../../../shared/engine/suggest'
 import type { DrillMusic, PlayedEvent } from '../../../shared/engine/types'
 
@@ -19,6 +20,7 @@ const RECORDED: { version: string, digest: string }[] = [
   { version: '1.8.0', digest: '28e74e47d0c228e1' },
   { version: '1.9.0', digest: '8c6fe419a478f021' },
   { version: '1.10.0', digest: '63e9ffe254575302' },
+  { version: '1.11.0', digest: '09914aecfc3e2950' },
 ]
 
 /** A reproducible stream of numbers in [0, 1) (a linear congruential generator). */
@@ -76,6 +78,8 @@ function results(): unknown[] {
     // From 1.10.0 on: D major's second inversion, right hand (1 2 4 5), and E♭ minor, right hand (all black).
     suggestFingering({ hand: 'right', notes: [69, 74, 78, 81, 86, 90, 93, 90, 86, 81, 78, 74, 69] }),
     suggestFingering({ hand: 'right', notes: [63, 66, 70, 75, 78, 82, 87, 82, 78, 75, 70, 66, 63] }),
+    // From 1.11.0 on: a stretch within the practical span stays in position (A minor's 2–3 major third).
+    positionStarts('right', [57, 60, 64, 69, 72, 76, 81], [1, 2, 3, 1, 2, 3, 5]),
   ]
 }
 
