@@ -2,7 +2,11 @@
 // A state is the pair (option at the previous item, option at this item), so rules over three
 // consecutive notes apply exactly while the work stays linear in the length of the line.
 
-/** Costs of a line of items, each with a few options (fingers, or finger assignments for chords). */
+/**
+ * Costs of a line of items, each with a few options (fingers, or finger assignments for chords). A
+ * table handed out may be refilled by the next call of the same method, so readers finish with one
+ * before they ask for the next.
+ */
 export interface Lattice {
   /** Number of options of each item (at least 1). */
   sizes: ArrayLike<number>
@@ -210,13 +214,25 @@ function rescale(values: Float64Array, from: number, count: number, by: number):
 }
 
 /**
+ * Every item's option probabilities in one array, option o of item i at values[start[i] + o]: an
+ * array per item would be an object per note for the garbage collector to copy.
+ */
+export interface OptionPosteriors { start: Int32Array, values: Float64Array }
+
+function posteriorsFor(sizes: Int32Array): OptionPosteriors {
+  const start = new Int32Array(sizes.length + 1)
+  for (let i = 0; i < sizes.length; i++) start[i + 1] = start[i]! + sizes[i]!
+  return { start, values: new Float64Array(start[sizes.length]!) }
+}
+
+/**
  * Posterior probability of every option of every item when a path's probability is proportional to
  * exp(−cost / temperature): forward–backward over the same state pairs. In linear space with every
  * item rescaled (one exponential per pair entry, none per state) whenever every table spans at most
  * LINEAR_SPAN temperatures, as any ergonomic model's do; otherwise in log space, which holds for any costs.
  */
-export function optionPosteriors(lattice: Lattice, temperature: number): Float64Array[] {
-  if (lattice.sizes.length === 0) return []
+export function optionPosteriors(lattice: Lattice, temperature: number): OptionPosteriors {
+  if (lattice.sizes.length === 0) return posteriorsFor(new Int32Array(0))
   const layout = stateLayout(lattice)
   return linearPosteriors(lattice, temperature, layout) ?? logPosteriors(lattice, temperature, layout)
 }
@@ -226,7 +242,7 @@ export function optionPosteriors(lattice: Lattice, temperature: number): Float64
  * divided by their largest state, which leaves every posterior unchanged, since each item's joint
  * weights are normalised to sum 1.
  */
-function linearPosteriors(lattice: Lattice, temperature: number, layout: StateLayout): Float64Array[] | null {
+function linearPosteriors(lattice: Lattice, temperature: number, layout: StateLayout): OptionPosteriors | null {
   const weights = linearTables(lattice, temperature, layout)
   if (!weights) return null
   return backwardMarginals(weights, forward(weights, layout), layout)
@@ -289,17 +305,17 @@ function forward({ own, triples }: LinearTables, layout: StateLayout): Float64Ar
  * The backward pass, taking each item's marginals as soon as its beta is complete; beta is kept only
  * for the item at hand and the one before it, in two buffers that swap.
  */
-function backwardMarginals({ own, triples }: LinearTables, alpha: Float64Array, layout: StateLayout): Float64Array[] {
+function backwardMarginals({ own, triples }: LinearTables, alpha: Float64Array, layout: StateLayout): OptionPosteriors {
   const { sizes, offsets } = layout
   const n = sizes.length
   const stateCount = layout.maxSize * layout.maxSize
   let beta = new Float64Array(stateCount).fill(1)
   let betaBefore = new Float64Array(stateCount)
-  const marginals: Float64Array[] = new Array(n)
+  const marginals = posteriorsFor(sizes)
   // What follows item i − 1 in state b through each option c of item i, whatever came before b.
   const after = new Float64Array(layout.maxSize)
   for (let i = n - 1; i >= 0; i--) {
-    marginals[i] = marginal(alpha, offsets[i]!, offsets[i + 1]! - offsets[i]!, sizes[i]!, beta)
+    marginal(alpha, offsets[i]!, offsets[i + 1]! - offsets[i]!, sizes[i]!, beta, marginals.values, marginals.start[i]!)
     if (i === 0) break
     const sb = sizes[i - 1]!
     const sc = sizes[i]!
@@ -332,19 +348,17 @@ function backwardMarginals({ own, triples }: LinearTables, alpha: Float64Array, 
   return marginals
 }
 
-/** The posterior of each of an item's sc options from its `count` states' alpha (at `from`) and beta (at 0). */
-function marginal(alpha: Float64Array, from: number, count: number, sc: number, beta: Float64Array): Float64Array {
-  const out = new Float64Array(sc)
+/** Writes the posterior of each of an item's sc options, from its `count` states' alpha (at `from`) and beta (at 0), to `out` at `at` (zeros before). */
+function marginal(alpha: Float64Array, from: number, count: number, sc: number, beta: Float64Array, out: Float64Array, at: number): void {
   let z = 0
   for (let j = 0; j < count; j += sc) {
     for (let c = 0; c < sc; c++) {
       const joint = alpha[from + j + c]! * beta[j + c]!
-      out[c] = out[c]! + joint
+      out[at + c] = out[at + c]! + joint
       z += joint
     }
   }
-  rescale(out, 0, sc, z)
-  return out
+  rescale(out, at, sc, z)
 }
 
 /**
@@ -353,7 +367,7 @@ function marginal(alpha: Float64Array, from: number, count: number, sc: number, 
  * cached weights: one exponential per state instead of one per state and option, and since the
  * largest state's term is a weight measured from the table's least cost, the sum cannot vanish.
  */
-function logPosteriors(lattice: Lattice, temperature: number, layout: StateLayout): Float64Array[] {
+function logPosteriors(lattice: Lattice, temperature: number, layout: StateLayout): OptionPosteriors {
   const { sizes, offsets, maxSize } = layout
   const n = sizes.length
   const alpha = new Float64Array(offsets[n]!)
@@ -418,16 +432,16 @@ function logPosteriors(lattice: Lattice, temperature: number, layout: StateLayou
     }
   }
   const joint = new Float64Array(maxSize * maxSize)
-  const marginals: Float64Array[] = new Array(n)
+  const marginals = posteriorsFor(sizes)
+  const { values } = marginals
   for (let i = 0; i < n; i++) {
     const sc = sizes[i]!
     const from = offsets[i]!
     const length = offsets[i + 1]! - from
+    const at = marginals.start[i]!
     for (let j = 0; j < length; j++) joint[j] = alpha[from + j]! + beta[from + j]!
     const z = logSumExp(joint, 0, length, 1)
-    const marginal = new Float64Array(sc)
-    if (Number.isFinite(z)) for (let j = 0; j < length; j++) marginal[j % sc] = marginal[j % sc]! + Math.exp(joint[j]! - z)
-    marginals[i] = marginal
+    if (Number.isFinite(z)) for (let j = 0; j < length; j++) values[at + j % sc] = values[at + j % sc]! + Math.exp(joint[j]! - z)
   }
   return marginals
 }

@@ -132,33 +132,51 @@ const finite = (v: number | null | undefined, fallback: number): number => (type
 /** log P(observation) where the observation is "true" with soft degree `x` and the model says `p`. */
 const softLog = (x: number, p: number): number => Math.log(x * p + (1 - x) * (1 - p))
 
-interface Item { notes: number[], onMs: number, releaseMs: number | null, beat: number | null }
+/**
+ * The notes grouped into items (a chord, or a single note), in columns rather than an object per item:
+ * a long attempt would otherwise keep hundreds of thousands of small objects alive through the whole
+ * inference, which the garbage collector copies again and again. Item i holds notes start[i] to
+ * start[i + 1] − 1 (a chord's notes follow each other in the input); NaN stands for an unknown release
+ * or beat.
+ */
+interface Items {
+  count: number
+  start: Int32Array
+  onMs: Float64Array
+  releaseMs: Float64Array
+  beat: Float64Array
+}
 
-function groupChords(notes: PerformedNote[]): Item[] {
-  const items: Item[] = []
+function groupChords(notes: PerformedNote[]): Items {
+  const start = new Int32Array(notes.length + 1)
+  const onMs = new Float64Array(notes.length)
+  const beat = new Float64Array(notes.length)
+  let count = 0
   for (let i = 0; i < notes.length; i++) {
     const on = finite(notes[i]!.onMs, 0)
-    const last = items[items.length - 1]
-    if (last && on - last.onMs <= CHORD_WINDOW_MS) last.notes.push(i)
-    else {
-      const beat = notes[i]!.beat
-      items.push({ notes: [i], onMs: on, releaseMs: null, beat: typeof beat === 'number' && Number.isFinite(beat) ? beat : null })
-    }
+    if (count > 0 && on - onMs[count - 1]! <= CHORD_WINDOW_MS) continue
+    start[count] = i
+    onMs[count] = on
+    const b = notes[i]!.beat
+    beat[count] = typeof b === 'number' && Number.isFinite(b) ? b : NaN
+    count++
   }
-  for (const item of items) {
+  start[count] = notes.length
+  const releaseMs = new Float64Array(count)
+  for (let item = 0; item < count; item++) {
     // The chord is released when its last note is, and unknown when any note's release is.
-    let release: number | null = -Infinity
-    for (const i of item.notes) {
+    let release = -Infinity
+    for (let i = start[item]!; i < start[item + 1]!; i++) {
       const off = notes[i]!.offMs
       if (typeof off !== 'number' || !Number.isFinite(off)) {
-        release = null
+        release = NaN
         break
       }
       release = Math.max(release, off)
     }
-    item.releaseMs = release
+    releaseMs[item] = release
   }
-  return items
+  return { count, start, onMs, releaseMs, beat }
 }
 
 function moveOf(table: SpanRow[][], from: Touch[], to: Touch[]): Move {
@@ -248,8 +266,11 @@ function tripleNoteMoves(table: SpanRow[][], d1: number, d2: number): Uint8Array
   return moves
 }
 
-/** The timing of the move into an item, each reading a soft degree between 0 and 1 (null where unknown). */
-interface Timing { detached: number | null, connected: number | null, late: number | null }
+/**
+ * The timing of the move into each item, each reading a soft degree between 0 and 1 (NaN where
+ * unknown), one column per reading (see Items for why not an object per item).
+ */
+interface Timings { detached: Float64Array, connected: Float64Array, late: Float64Array }
 
 /** The median of `values[from, to)` without disturbing them, through `scratch`. */
 function medianOf(values: Float64Array, from: number, to: number, scratch: Float64Array): number | null {
@@ -317,15 +338,15 @@ function sortedMedian(sorted: Float64Array): number {
  * (negative for legato's overlap) and the scatter of both are medians over the attempt, so a lift is
  * read against the player's own articulation, legato or détaché.
  */
-function timingOf(items: Item[]): { timings: Timing[], sameFingerDetached: number } {
-  const n = items.length
-  const withBeats = items.every(item => item.beat !== null)
+function timingOf(items: Items): { timings: Timings, sameFingerDetached: number } {
+  const n = items.count
+  const withBeats = !items.beat.subarray(0, n).some(Number.isNaN)
   // Ms per beat of the step into each item (NaN where unknown), then the step each item was due.
   const rate = new Float64Array(n).fill(NaN)
   const span = new Float64Array(n).fill(NaN)
   for (let i = 1; i < n; i++) {
-    const beats = withBeats ? items[i]!.beat! - items[i - 1]!.beat! : 1
-    const ioi = items[i]!.onMs - items[i - 1]!.onMs
+    const beats = withBeats ? items.beat[i]! - items.beat[i - 1]! : 1
+    const ioi = items.onMs[i]! - items.onMs[i - 1]!
     if (beats > 0 && ioi > 0) {
       span[i] = beats
       rate[i] = ioi / beats
@@ -338,24 +359,22 @@ function timingOf(items: Item[]): { timings: Timing[], sameFingerDetached: numbe
     const local = medianOf(rate, Math.max(1, i - BEAT_WINDOW), Math.min(n, i + BEAT_WINDOW + 1), scratch)
     if (local === null || !(local > 0) || !Number.isFinite(span[i]!)) continue
     const due = local * span[i]!
-    lateness[i] = (items[i]!.onMs - items[i - 1]!.onMs) / due - 1
-    const gap = gapBefore(items, i)
-    if (gap !== null) gaps[i] = gap / due
+    lateness[i] = (items.onMs[i]! - items.onMs[i - 1]!) / due - 1
+    // NaN where the release is unknown, as the gap is then.
+    gaps[i] = gapBefore(items, i) / due
   }
   const gapUsual = centreAndSpread(gaps, DETACHED_SHARE)
   // Lateness is read whole: a step's lateness shares its jitter with the next (an early note makes the
   // next step long), so on a few notes its upper side is scatter, not a cluster of lifts to set aside.
   const lateUsual = centreAndSpread(lateness)
-  const timings: Timing[] = new Array(n)
+  const timings: Timings = { detached: new Float64Array(n).fill(NaN), connected: new Float64Array(n).fill(NaN), late: new Float64Array(n).fill(NaN) }
   for (let i = 0; i < n; i++) {
-    const gapMs = i > 0 ? gapBefore(items, i) : null
+    const gapMs = i > 0 ? gapBefore(items, i) : NaN
     const gap = gaps[i]!
     const late = lateness[i]!
-    timings[i] = {
-      detached: gapUsual === null || !Number.isFinite(gap) ? null : edge(gap - gapUsual.centre, DETACHED_SHARE, gapUsual.spread, DETACHED_EDGE),
-      connected: gapMs === null ? null : logistic((CONNECTED_MS - gapMs) / 5),
-      late: lateUsual === null || !Number.isFinite(late) ? null : edge(late - lateUsual.centre, LATE_SHARE, lateUsual.spread, LATE_EDGE),
-    }
+    if (gapUsual !== null && Number.isFinite(gap)) timings.detached[i] = edge(gap - gapUsual.centre, DETACHED_SHARE, gapUsual.spread, DETACHED_EDGE)
+    if (!Number.isNaN(gapMs)) timings.connected[i] = logistic((CONNECTED_MS - gapMs) / 5)
+    if (lateUsual !== null && Number.isFinite(late)) timings.late[i] = edge(late - lateUsual.centre, LATE_SHARE, lateUsual.spread, LATE_EDGE)
   }
   // A player who leaves less than the same finger's silence anyway shows it when one finger moves.
   const needsGap = gapUsual === null ? 1 : logistic((SAME_FINGER_RELEASE - gapUsual.centre) / DETACHED_EDGE)
@@ -367,10 +386,9 @@ function edge(excess: number, share: number, spread: number, softest: number): n
   return logistic((excess - Math.max(share, SPREADS * spread)) / Math.max(softest, spread / 2))
 }
 
-/** The silence between item i − 1's release and item i's onset, or null where that release is unknown. */
-function gapBefore(items: Item[], i: number): number | null {
-  const release = items[i - 1]!.releaseMs
-  return release === null ? null : items[i]!.onMs - release
+/** The silence between item i − 1's release and item i's onset, or NaN where that release is unknown. */
+function gapBefore(items: Items, i: number): number {
+  return items.onMs[i]! - items.releaseMs[i - 1]!
 }
 
 function accentsOf(notes: PerformedNote[]): number[] {
@@ -383,16 +401,20 @@ function accentsOf(notes: PerformedNote[]): number[] {
 }
 
 /** The move probabilities in MOVES order, so that an item's moves are costed by index. */
+const DETACHED_BY_MOVE = MOVES.map(move => P_DETACHED[move])
 const LATE_BY_MOVE = MOVES.map(move => P_LATE[move])
 const SAME_FINGER = MOVES.indexOf('sameFinger')
 
-/** Each move's timing evidence for one item, in cost units (−TEMPERATURE · log-likelihood), in MOVES order. */
-function moveCosts(t: Timing, sameFingerDetached: number, out: Float64Array): void {
+/**
+ * Each move's timing evidence for one item, in cost units (−TEMPERATURE · log-likelihood), in MOVES
+ * order, from its three readings (NaN where unknown).
+ */
+function moveCosts(detached: number, late: number, connected: number, sameFingerDetached: number, out: Float64Array): void {
   for (let m = 0; m < MOVES.length; m++) {
     let ll = 0
-    if (t.detached !== null) ll += softLog(t.detached, m === SAME_FINGER ? sameFingerDetached : P_DETACHED[MOVES[m]!])
-    if (t.late !== null) ll += softLog(t.late, LATE_BY_MOVE[m]!)
-    if (t.connected !== null && (m === SAME_FINGER || m === SHIFT)) ll += Math.log(t.connected * P_CONNECTED_SAME_FINGER + (1 - t.connected))
+    if (!Number.isNaN(detached)) ll += softLog(detached, m === SAME_FINGER ? sameFingerDetached : DETACHED_BY_MOVE[m]!)
+    if (!Number.isNaN(late)) ll += softLog(late, LATE_BY_MOVE[m]!)
+    if (!Number.isNaN(connected) && (m === SAME_FINGER || m === SHIFT)) ll += Math.log(connected * P_CONNECTED_SAME_FINGER + (1 - connected))
     out[m] = -TEMPERATURE * ll
   }
 }
@@ -401,7 +423,7 @@ function moveCosts(t: Timing, sameFingerDetached: number, out: Float64Array): vo
  * Per option of item i: the velocity evidence, in cost units (−TEMPERATURE · log-likelihood), written
  * to `out` (one scratch array for every item, so that no item allocates).
  */
-function thumbEvidence(base: LineLattice, item: Item, i: number, noteKeys: number[], accents: number[], out: Float64Array): void {
+function thumbEvidence(base: LineLattice, items: Items, i: number, noteKeys: number[], accents: number[], out: Float64Array): void {
   const keys = base.keys[i]!
   const options = base.options[i]!
   out.fill(0, 0, options.length)
@@ -409,7 +431,7 @@ function thumbEvidence(base: LineLattice, item: Item, i: number, noteKeys: numbe
     // Every key comes from one of the item's notes, so each gets the loudest of its notes; its
     // log-likelihood under the thumb and under another finger is taken once for all options.
     let accent = -Infinity
-    for (const n of item.notes) if (noteKeys[n] === keys[j]) accent = Math.max(accent, accents[n]!)
+    for (let n = items.start[i]!; n < items.start[i + 1]!; n++) if (noteKeys[n] === keys[j]) accent = Math.max(accent, accents[n]!)
     const thumb = softLog(accent, P_ACCENT_THUMB)
     const other = softLog(accent, P_ACCENT_OTHER)
     for (let o = 0; o < options.length; o++) out[o] = out[o]! + (options[o]![j] === 1 ? thumb : other)
@@ -431,47 +453,40 @@ function thumbEvidence(base: LineLattice, item: Item, i: number, noteKeys: numbe
  * around a likely lift the item gets a triple table of its own: the creep read from its timing, and
  * the rules over three notes weighed by the chance that the hand stayed on the keys before.
  */
-function withEvidence(base: LineLattice, model: CostModel, items: Item[], noteKeys: number[], accents: number[]): EvidenceLattice {
+function withEvidence(base: LineLattice, model: CostModel, items: Items, noteKeys: number[], accents: number[]): EvidenceLattice {
   const { timings, sameFingerDetached } = timingOf(items)
   let most = 0
-  for (let i = 0; i < items.length; i++) most = Math.max(most, base.sizes[i]!)
+  for (let i = 0; i < items.count; i++) most = Math.max(most, base.sizes[i]!)
   const velocity = new Float64Array(most)
   const baseFirst = base.first()
-  thumbEvidence(base, items[0]!, 0, noteKeys, accents, velocity)
+  thumbEvidence(base, items, 0, noteKeys, accents, velocity)
   // Filled in a loop: copying through the typed-array constructor costs more than the sums.
   const first = new Float64Array(base.sizes[0]!)
   for (let o = 0; o < first.length; o++) first[o] = baseFirst[o]! + velocity[o]!
-  // Every item's pair table is a view into one buffer: a typed array of more than a few numbers is
-  // allocated outside the heap, which would cost more per item than filling it.
+  // Every item's pair table lives in one buffer, at offsets[i]: a typed array per item, even a view,
+  // is an object the garbage collector keeps copying while the inference runs.
   const single = (i: number): boolean => base.keys[i]!.length === 1
-  let size = 0
-  for (let i = 1; i < items.length; i++) size += base.sizes[i - 1]! * base.sizes[i]!
-  const buffer = new Float64Array(size)
+  const offsets = new Int32Array(items.count + 1)
+  for (let i = 1; i < items.count; i++) offsets[i + 1] = offsets[i]! + base.sizes[i - 1]! * base.sizes[i]!
+  const buffer = new Float64Array(offsets[items.count]!)
   // Per pair entry, whether the hand more probably lifted than stayed on the keys.
-  const liftFlags = new Uint8Array(size)
-  const offsets = new Int32Array(items.length)
-  let offset = 0
-  const pairs: Float64Array[] = new Array(items.length)
-  const triples: (ArrayLike<number> | null)[] = new Array(items.length).fill(null)
+  const liftFlags = new Uint8Array(buffer.length)
+  const triples: (ArrayLike<number> | null)[] = new Array(items.count).fill(null)
   const moveCost = new Float64Array(MOVES.length)
   const lifted = new Float64Array(5)
   // The chance that the move into the item before was a lift, judged from its timing alone.
   let liftBefore = 0
   // The same, as the timing alone tells it (even odds before): how far the note before that still says where the hand is.
   let heardBefore = 0
-  for (let i = 1; i < items.length; i++) {
-    thumbEvidence(base, items[i]!, i, noteKeys, accents, velocity)
-    moveCosts(timings[i]!, sameFingerDetached, moveCost)
-    const costs = buffer.subarray(offset, offset + base.sizes[i - 1]! * base.sizes[i]!)
-    offset += costs.length
+  for (let i = 1; i < items.count; i++) {
+    thumbEvidence(base, items, i, noteKeys, accents, velocity)
+    moveCosts(timings.detached[i]!, timings.late[i]!, timings.connected[i]!, sameFingerDetached, moveCost)
     const pairOfSingles = single(i - 1) && single(i)
     if (pairOfSingles) {
       const own = model.first(base.keys[i]![0]!)
       for (let c = 0; c < 5; c++) lifted[c] = LIFT_POINTS + own[c]! + moveCost[SHIFT]!
     }
-    offsets[i] = offset - costs.length
-    pairCosts(base, model.table, i, velocity, moveCost, lifted, costs, liftFlags.subarray(offsets[i]!, offset))
-    pairs[i] = costs
+    pairCosts(base, model.table, i, velocity, moveCost, lifted, buffer, liftFlags, offsets[i]!)
     const lift = liftChance(moveCost)
     if (pairOfSingles && i >= 2 && single(i - 2)) {
       const ka = base.keys[i - 2]![0]!
@@ -480,15 +495,24 @@ function withEvidence(base: LineLattice, model: CostModel, items: Item[], noteKe
       const d2 = base.keys[i]![0]! - kb
       triples[i] = lift < QUIET && liftBefore < QUIET
         ? creepTriple(model, ka, d1, d2)
-        : liftTriple(base.triple(i)!, tripleNoteMoves(model.table, d1, d2), costs, velocity, lifted, 1 - heardBefore)
+        : liftTriple(base.triple(i)!, tripleNoteMoves(model.table, d1, d2), buffer, offsets[i]!, velocity, lifted, 1 - heardBefore)
     }
     liftBefore = lift
     heardBefore = liftChance(moveCost, 0.5)
   }
+  // Handed out through one table per size, refilled at each call: the chain reads each pair table
+  // before it asks for the next (Lattice), so no item needs a view of its own.
+  const tables: Float64Array[] = []
   return {
     sizes: base.sizes,
     first: () => first,
-    pair: i => pairs[i]!,
+    pair: (i) => {
+      const from = offsets[i]!
+      const length = offsets[i + 1]! - from
+      const table = tables[length] ??= new Float64Array(length)
+      for (let j = 0; j < length; j++) table[j] = buffer[from + j]!
+      return table
+    },
     triple: i => triples[i] ?? base.triple(i),
     lifted: (i, b, c) => liftFlags[offsets[i]! + b * base.sizes[i]! + c] === 1,
   }
@@ -528,7 +552,7 @@ function either(x: number, y: number): number {
 /** How much dearer a shift is than a move in position when the timing is plain (no silence, no delay). */
 const CREEP_POINTS = (() => {
   const plain = new Float64Array(MOVES.length)
-  moveCosts({ detached: 0, late: 0, connected: null }, P_DETACHED.sameFinger, plain)
+  moveCosts(0, 0, NaN, P_DETACHED.sameFinger, plain)
   return plain[SHIFT]! - plain[IN_POSITION]!
 })()
 
@@ -556,23 +580,24 @@ function creepTriple(model: CostModel, ka: number, d1: number, d2: number): Floa
 /**
  * The triple table of a move near a likely lift: the rules over three notes weighed by `held`, the
  * chance the hand stayed on the keys before; and a creeping fingering read as a lift (its pair cost,
- * in `pair`, replaced by the lift's) unless the move before was likely a lift itself, after which the
+ * in `pairs` from `at`, replaced by the lift's) unless the move before was likely a lift itself, after which the
  * note before that says nothing of the hand.
  */
-function liftTriple(baseTriple: ArrayLike<number>, moves: Uint8Array, pair: Float64Array, velocity: Float64Array, lifted: Float64Array, held: number): Float64Array {
+function liftTriple(baseTriple: ArrayLike<number>, moves: Uint8Array, pairs: Float64Array, at: number, velocity: Float64Array, lifted: Float64Array, held: number): Float64Array {
   const costs = new Float64Array(125)
   for (let j = 0; j < 125; j++) {
     const c = j % 5
-    costs[j] = held * (baseTriple[j]! + (moves[j] === SHIFT ? velocity[c]! + lifted[c]! - pair[j % 25]! : 0))
+    costs[j] = held * (baseTriple[j]! + (moves[j] === SHIFT ? velocity[c]! + lifted[c]! - pairs[at + j % 25]! : 0))
   }
   return costs
 }
 
 /**
- * Writes item i's pair costs with its velocity and move evidence added to `costs`. A function of its
- * own, called once per item, so that the engine optimises this work within the first attempt graded.
+ * Writes item i's pair costs with its velocity and move evidence added to `costs`, and its lift flags,
+ * both from `at`. A function of its own, called once per item, so that the engine optimises this work
+ * within the first attempt graded.
  */
-function pairCosts(base: LineLattice, table: SpanRow[][], i: number, velocity: Float64Array, moveCost: Float64Array, lifted: Float64Array, costs: Float64Array, liftFlags: Uint8Array): void {
+function pairCosts(base: LineLattice, table: SpanRow[][], i: number, velocity: Float64Array, moveCost: Float64Array, lifted: Float64Array, costs: Float64Array, liftFlags: Uint8Array, at: number): void {
   const basePair = base.pair(i)
   const sb = base.sizes[i - 1]!
   const sc = base.sizes[i]!
@@ -585,8 +610,8 @@ function pairCosts(base: LineLattice, table: SpanRow[][], i: number, velocity: F
         const j = b * sc + c
         const move = moves[j]!
         const stay = basePair[j]! + moveCost[move]!
-        liftFlags[j] = move === SHIFT || lifted[c]! < stay - LIFT_MARGIN ? 1 : 0
-        costs[j] = velocity[c]! + (move === SHIFT ? lifted[c]! : either(stay, lifted[c]!))
+        liftFlags[at + j] = move === SHIFT || lifted[c]! < stay - LIFT_MARGIN ? 1 : 0
+        costs[at + j] = velocity[c]! + (move === SHIFT ? lifted[c]! : either(stay, lifted[c]!))
       }
     }
     return
@@ -596,7 +621,7 @@ function pairCosts(base: LineLattice, table: SpanRow[][], i: number, velocity: F
   for (let b = 0; b < sb; b++) {
     for (let c = 0; c < sc; c++) {
       const move = MOVES.indexOf(moveOf(table, from[b]!, to[c]!))
-      costs[b * sc + c] = basePair[b * sc + c]! + velocity[c]! + moveCost[move]!
+      costs[at + b * sc + c] = basePair[b * sc + c]! + velocity[c]! + moveCost[move]!
     }
   }
 }
@@ -645,8 +670,13 @@ export function inferFingering(hand: Hand, notes: PerformedNote[], handSize: Han
   if (notes.length === 0) return { fingers: [], positions: [] }
   const items = groupChords(notes)
   const noteKeys = notes.map(n => toRightHandSpace(hand, n.midi))
-  // Most items are single notes, which need no set of distinct keys.
-  const keys = items.map(item => item.notes.length === 1 ? [noteKeys[item.notes[0]!]!] : [...new Set(item.notes.map(n => noteKeys[n]!))].sort((a, b) => a - b))
+  const keys: number[][] = new Array(items.count)
+  for (let i = 0; i < items.count; i++) {
+    const from = items.start[i]!
+    const to = items.start[i + 1]!
+    // Most items are single notes, which need no set of distinct keys.
+    keys[i] = to - from === 1 ? [noteKeys[from]!] : [...new Set(noteKeys.slice(from, to))].sort((a, b) => a - b)
+  }
   const model = costModel(handSize, INFERENCE_WEIGHTS)
   const base = lineLattice(keys, model)
   const lattice = withEvidence(base, model, items, noteKeys, accentsOf(notes))
@@ -656,21 +686,26 @@ export function inferFingering(hand: Hand, notes: PerformedNote[], handSize: Han
   const posteriors = optionPosteriors(lattice, TEMPERATURE)
   const chosen = chosenTouches(base, path)
   const fingers: { finger: Finger, confidence: number }[] = new Array(notes.length)
-  for (let i = 0; i < items.length; i++) {
+  for (let i = 0; i < items.count; i++) {
     const options = base.options[i]!
-    const posterior = posteriors[i]!
-    for (const n of items[i]!.notes) {
+    const at = posteriors.start[i]!
+    for (let n = items.start[i]!; n < items.start[i + 1]!; n++) {
       const j = Math.max(0, base.keys[i]!.indexOf(noteKeys[n]!))
       const finger = chosen[i]![j]!.f
       // A note's confidence is the posterior probability of every assignment that gives it this finger.
       let confidence = 0
-      for (let o = 0; o < options.length; o++) if (options[o]![j] === finger) confidence += posterior[o]!
+      for (let o = 0; o < options.length; o++) if (options[o]![j] === finger) confidence += posteriors.values[at + o]!
       fingers[n] = { finger, confidence: Math.min(1, Math.max(0, confidence)) }
     }
   }
-  // A new position begins where the fingering makes one, and wherever the hand was heard to lift.
-  const starts = new Set(touchPositionStarts(chosen, model.table))
-  for (let i = 1; i < items.length; i++) if (lattice.lifted(i, path[i - 1]!, path[i]!)) starts.add(i)
-  const positions = [...starts].sort((a, b) => a - b).map(i => items[i]!.notes[0]!)
+  // A new position begins where the fingering makes one, and wherever the hand was heard to lift
+  // (both in item order, so merged as they come).
+  const fingered = touchPositionStarts(chosen, model.table)
+  const positions: number[] = []
+  for (let i = 1, next = 0; i < items.count; i++) {
+    const starts = fingered[next] === i
+    if (starts) next++
+    if (starts || lattice.lifted(i, path[i - 1]!, path[i]!)) positions.push(items.start[i]!)
+  }
   return { fingers, positions }
 }

@@ -1,11 +1,15 @@
 // Hand positions: where a fingering makes the hand move to a new position.
-import { MAX_COMF, MAX_PRAC, MIN_COMF, MIN_PRAC, pairSpan, spanTable, type SpanRow } from './spans'
+import { MAX_COMF, MAX_PRAC, MIN_COMF, MIN_PRAC, spanTable, type SpanRow } from './spans'
 import { lineTouches, type Touch } from './touches'
 import type { Finger, Hand, HandSize, LineItem } from './types'
 
 function fitsBetween(table: SpanRow[][], a: Touch, b: Touch, min: number, max: number): boolean {
   if (a.f === b.f) return a.k === b.k
-  const { row, s } = pairSpan(table, a.f, a.k, b.f, b.k)
+  // pairSpan written out: this runs for every note of every grade, and its small result object would
+  // be garbage each time.
+  const lower = a.f < b.f
+  const row = lower ? table[a.f]![b.f]! : table[b.f]![a.f]!
+  const s = lower ? b.k - a.k : a.k - b.k
   return s > 0 && s >= row[min]! && s <= row[max]!
 }
 
