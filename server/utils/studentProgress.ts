@@ -2,12 +2,13 @@
 // MariaDB, trend lines and habits with the engine's statistics. Nothing here is stored again.
 import type { H3Event } from 'h3'
 import type { Knex } from 'knex'
+import type { z } from 'zod'
 import type { User } from '#auth-utils'
 import { fingerHabits, habitStatement, leastSquaresLine, unplannedShifts, type HabitResult, type ShiftResult } from '#shared/engine'
 import type { DrillNote } from '#shared/types/drill'
 import { addDays, dayAtOffset, offsetChanges, type OffsetChange } from '#shared/utils/localDays'
 import { todayIn } from '#shared/utils/dueDate'
-import { ATTEMPTS_PER_PAGE, RANGE_DAYS, type StudentAttemptsPage, type DrillProgress, type HabitsView, type PracticeDay, type ProgressFigure, type ProgressOverview, type ProgressPoint, type ProgressQuery, type ProgressRange, type TrendLine } from '#shared/types/progress'
+import { ATTEMPTS_PER_PAGE, RANGE_DAYS, StudentParams, type StudentAttemptsPage, type DrillProgress, type HabitsView, type PracticeDay, type ProgressFigure, type ProgressOverview, type ProgressPoint, type ProgressQuery, type ProgressRange, type TrendLine } from '#shared/types/progress'
 
 const DAY_MS = 86_400_000
 const LOG_DAYS = 56
@@ -24,6 +25,21 @@ export async function readableStudent(db: Knex, user: User, id: number): Promise
     throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: 'This student is not one of yours' })
   }
   return { id: Number(row.id), name: String(row.name) }
+}
+
+/**
+ * A request about one student (`/api/students/:id/…`): the signed-in caller, the query checked with
+ * `querySchema`, and the student, 404 or 403 as `readableStudent`. The reply is marked private, as
+ * it holds one student's record.
+ */
+export async function studentRequest<S extends z.ZodType>(event: H3Event, querySchema: S): Promise<{ user: User, db: Knex, student: StudentRef, query: z.infer<S> }> {
+  const user = await requireRole(event)
+  const { id } = validParams(event, StudentParams)
+  const query = validQuery(event, querySchema)
+  const db = useDb()
+  const student = await readableStudent(db, user, id)
+  setResponseHeader(event, 'cache-control', 'private, no-store')
+  return { user, db, student, query }
 }
 
 function since(range: ProgressRange, now: number): Date | null {

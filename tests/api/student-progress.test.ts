@@ -242,17 +242,20 @@ describe('habits across drills', () => {
 })
 
 describe('who may see a student\'s progress', () => {
-  it('lets the student and their teacher in, and keeps other students and teachers out', async () => {
+  it('lets the student and their teacher in, marks the reply private, and keeps other students and teachers out', async () => {
     const noor = await studentId('student@evenhand.test')
     const drill = await busiestDrill(noor)
-    const routes = [`/api/students/${noor}/progress`, `/api/students/${noor}/progress?drill=${drill}`, `/api/students/${noor}/habits`]
+    const routes = [`/api/students/${noor}/progress`, `/api/students/${noor}/progress?drill=${drill}`, `/api/students/${noor}/habits`, `/api/students/${noor}/attempts`]
     const own = await new Client().signIn('student@evenhand.test')
     const teacher = await new Client().signIn('teacher@evenhand.test')
     const otherStudent = await new Client().signIn('theo@evenhand.test')
     const otherTeacher = new Client()
     await otherTeacher.post('/api/auth/register', { name: 'Other Teacher', email: `other-p-${Date.now()}@evenhand.test`, password: 'long-enough-1' })
     for (const path of routes) {
-      expect((await own.get(path)).status, path).toBe(200)
+      const mine = await own.get(path)
+      expect(mine.status, path).toBe(200)
+      // One student's record: no shared cache may keep it.
+      expect(mine.headers.get('cache-control'), path).toBe('private, no-store')
       expect((await teacher.get(path)).status, path).toBe(200)
       expect((await otherStudent.get(path)).status, path).toBe(403)
       expect((await otherTeacher.get(path)).status, path).toBe(403)
