@@ -3,22 +3,17 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { makeAccount, TEST_PASSWORD } from '../support/accounts'
 import type { TestAccount } from '../support/accounts'
-import { openBrowser, signInAs } from '../support/browser'
-import type { BrowserSession } from '../support/browser'
+import { browserForFile, signInAs } from '../support/browser'
 import { waitForMail } from '../support/mail'
 import { closeTestDb } from '../support/server'
 
-let browser: BrowserSession
+const browser = browserForFile()
 let admin: TestAccount
 
 beforeAll(async () => {
   admin = await makeAccount('admin', 'Mailbox Admin')
-  browser = await openBrowser()
 })
-afterAll(async () => {
-  await browser?.close()
-  await closeTestDb()
-})
+afterAll(closeTestDb)
 
 describe('the local mail box', () => {
   it('shows the admin a password e-mail the app sent, whose link opens the new-password page', async () => {

@@ -1,16 +1,9 @@
 // What every page owes a visitor besides its content: failures told apart, fields that say what is
 // wrong with them, a skip link, and the page's description and icon.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { openBrowser, signInAs } from '../support/browser'
-import type { BrowserSession } from '../support/browser'
+import { describe, expect, it } from 'vitest'
+import { browserForFile, signInAs } from '../support/browser'
 
-let browser: BrowserSession
-beforeAll(async () => {
-  browser = await openBrowser()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+const browser = browserForFile()
 
 // Signed out first: the forms and the page furniture; then signed in, the failures.
 describe('forms', () => {

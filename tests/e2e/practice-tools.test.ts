@@ -38,12 +38,17 @@ async function openTools(page: Page): Promise<void> {
   await page.getByTestId('practice-tools').locator('summary').click()
 }
 
+/** The drill's page for its assignment, played on the MIDI keyboard, with the tools unfolded. */
+async function openWithTools(page: Page, drill: AssignedDrill): Promise<void> {
+  await openDrill(page, drill, `?assignment=${drill.assignmentId}`)
+  await page.locator('#play-with').selectOption({ label: PLAY_WITH_LABEL.midi })
+  await openTools(page)
+}
+
 describe('the practice tools', () => {
   it('loops a bar, saving each pass as an attempt of that bar, on a ladder that climbs after a good pass', async () => {
     const { page } = browser
-    await openDrill(page, five, `?assignment=${five.assignmentId}`)
-    await page.locator('#play-with').selectOption({ label: PLAY_WITH_LABEL.midi })
-    await openTools(page)
+    await openWithTools(page, five)
     await page.locator('#to-bar').selectOption('1')
     await page.getByTestId('loop').check()
     await page.getByTestId('ladder').check()
@@ -71,9 +76,7 @@ describe('the practice tools', () => {
 
   it('plays one hand of a both-hands drill while the app sounds the other, graded on that hand alone', async () => {
     const { page } = browser
-    await openDrill(page, both, `?assignment=${both.assignmentId}`)
-    await page.locator('#play-with').selectOption({ label: PLAY_WITH_LABEL.midi })
-    await openTools(page)
+    await openWithTools(page, both)
     await page.locator('#hand').selectOption('right')
     expect(await page.getByTestId('other-hand').isChecked()).toBe(true)
     const right = both.notes.filter(n => n.hand === 'right')

@@ -1,17 +1,9 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { describe, expect, it } from 'vitest'
 import { summariseLatency } from '../../composables/useLatencyProbe'
-import { openStudentWithFakeMidi } from '../support/browser'
-import type { BrowserSession } from '../support/browser'
+import { browserForFile, openStudentWithFakeMidi } from '../support/browser'
 import { FAKE_MIDI_INPUT_NAME } from '../support/fake-midi'
 
-let browser: BrowserSession
-
-beforeAll(async () => {
-  browser = await openStudentWithFakeMidi()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+const browser = browserForFile(openStudentWithFakeMidi)
 
 describe('the settings page', () => {
   it('keeps the chosen device, hand size, sound and key-map octave through a reload', async () => {

@@ -1,14 +1,7 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { openBrowser, signInAs } from '../support/browser'
-import type { BrowserSession } from '../support/browser'
+import { describe, expect, it } from 'vitest'
+import { browserForFile, signInAs } from '../support/browser'
 
-let browser: BrowserSession
-beforeAll(async () => {
-  browser = await openBrowser()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+const browser = browserForFile()
 
 describe('signing in', () => {
   it('sends a signed-out visitor to the sign-in page', async () => {

@@ -3,6 +3,7 @@ import { mkdtemp, rm } from 'node:fs/promises'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { chromium } from 'playwright-core'
+import { afterAll, beforeAll } from 'vitest'
 import type { BrowserContext, Page } from 'playwright-core'
 import { fakeMidiScript } from './fake-midi'
 import { baseUrl, DEMO_PASSWORD } from './server'
@@ -32,6 +33,33 @@ export async function openBrowser(options: { initScript?: string } = {}): Promis
       await context.close()
       await rm(profile, { recursive: true, force: true })
     },
+  }
+}
+
+/**
+ * One browser for a whole test file: opened (by `open`, a plain one unless told) before the file's
+ * first test, closed after its last. Its `page` and `context` are read inside tests and later hooks.
+ */
+export function browserForFile(open: () => Promise<BrowserSession> = () => openBrowser()): BrowserSession {
+  let session: BrowserSession | undefined
+  beforeAll(async () => {
+    session = await open()
+  })
+  afterAll(async () => {
+    await session?.close()
+  })
+  const current = (): BrowserSession => {
+    if (!session) throw new Error('The file\'s browser opens before its first test: read it inside a test or a later hook.')
+    return session
+  }
+  return {
+    get context() {
+      return current().context
+    },
+    get page() {
+      return current().page
+    },
+    close: () => current().close(),
   }
 }
 
