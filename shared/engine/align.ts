@@ -113,6 +113,11 @@ export interface AlignmentSides {
   pOn: Float64Array
   /** Whether a played note shares a chord-window group with the one before. */
   grouped: Uint8Array
+  /**
+   * The band, shared by every alignment of these sides: each fill writes every move it later reads, so
+   * the second pass need not allocate (and the collector need not reclaim) a second set of moves.
+   */
+  band: Band
 }
 
 /** What a pass that compares intervals needs besides the sides. */
@@ -194,6 +199,9 @@ function fillBand(band: Band, sides: AlignmentSides, tempo: Tempo): boolean {
   const costG = new Int32Array(3 * ringWidth)
   const lastTargetG = new Int32Array(3 * ringWidth)
   const lastPlayedG = new Int32Array(3 * ringWidth)
+  // The played interval into each note (from the one before), read by every row that pairs it.
+  const playedStep = new Float64Array(pOn.length)
+  for (let j = 1; j < pOn.length; j++) playedStep[j] = pOn[j]! - pOn[j - 1]!
   const top = ringRow(band, 0)
   for (let j = 0; j <= hi[0]!; j++) {
     costM[top + j] = INF
@@ -213,6 +221,9 @@ function fillBand(band: Band, sides: AlignmentSides, tempo: Tempo): boolean {
     const upRing = ringRow(band, i - 1)
     const upLo = lo[i - 1]!
     const upHi = hi[i - 1]!
+    const atMs = tMs[i - 1]!
+    // The written interval into this row's note, for a pairing straight after the one before.
+    const writtenStep = i > 1 ? atMs - tMs[i - 2]! : 0
     let leftM = INF
     let leftG = INF
     let leftTarget = -1
@@ -258,8 +269,7 @@ function fillBand(band: Band, sides: AlignmentSides, tempo: Tempo): boolean {
           let timeG = 0
           if (perMs > 0) {
             const onMs = pOn[j - 1]!
-            const atMs = tMs[i - 1]!
-            if (i > 1 && j > 1) timeM = timeCost(onMs - pOn[j - 2]! - (atMs - tMs[i - 2]!), perMs)
+            if (i > 1 && j > 1) timeM = timeCost(playedStep[j - 1]! - writtenStep, perMs)
             const pa = lastTargetG[diagonal]!
             const pb = lastPlayedG[diagonal]!
             if (pa >= 0 && pb >= 0) timeG = timeCost(onMs - pOn[pb]! - (atMs - tMs[pa]!), perMs)
@@ -387,13 +397,14 @@ export function alignmentSides(targets: readonly AlignTarget[], played: readonly
     tBeat: inOrder(new Float64Array(ti.length), ti, i => targets[i]!.beat),
     pOn: inOrder(new Float64Array(pi.length), pi, i => played[i]!.onMs),
     grouped,
+    band: bandFor(ti.length, pi.length),
   }
 }
 
 /** The alignment of prepared sides; intervals are compared when the timing gives a tempo. */
 export function alignSides(sides: AlignmentSides, timing: Pick<AlignOptions, 'msPerBeat' | 'toleranceMs'> = {}): Alignment {
   const { msPerBeat, toleranceMs } = timing
-  const band = bandFor(sides.tMidi.length, sides.pMidi.length)
+  const { band } = sides
   if (msPerBeat === undefined || !(msPerBeat > 0)) return traceBack(band, sides, fillUntimed(band, sides))
   const tMs = new Float64Array(sides.tBeat.length)
   for (let k = 0; k < tMs.length; k++) tMs[k] = sides.tBeat[k]! * msPerBeat
