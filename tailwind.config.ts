@@ -16,6 +16,8 @@ export default {
         ember: { 100: '#fde8dc', 300: '#fdba74', 500: '#c2410c', 700: '#9a3412' },
       },
       borderRadius: { xl2: '1.25rem' },
+      // A phone held sideways: the practice page packs the drill, the keys and the start into its few hundred pixels.
+      screens: { 'phone-landscape': { raw: '(orientation: landscape) and (max-height: 500px)' } },
     },
   },
 } satisfies Config

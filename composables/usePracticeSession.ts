@@ -29,7 +29,7 @@ export type SaveState =
 export type PracticeState =
   | { phase: 'ready' }
   | { phase: 'listening' }
-  | { phase: 'counting', pass: number }
+  | { phase: 'counting', pass: number, countIn: boolean }
   | { phase: 'playing', pass: number }
   | { phase: 'done' }
 
@@ -300,7 +300,7 @@ export function usePracticeSession(options: PracticeSessionOptions) {
     if (state.value.phase !== 'done' || !loop.on) pass = 0
     pass++
     store.begin({ drillId: current.id, drillVersion: current.version, assignmentId: assignmentId.value, inputDevice: store.inputDevice, deviceName: store.inputDevice === 'midi' ? midi.selected.value?.name : undefined })
-    state.value = { phase: 'counting', pass }
+    state.value = { phase: 'counting', pass, countIn }
     const beatMs = 60_000 / store.tempoBpm
     announcement.value = countIn ? `Count-in: ${beatsPerBar.value} beats at ${store.tempoBpm} beats per minute.` : `Pass ${pass} at ${store.tempoBpm} beats per minute.`
     try {

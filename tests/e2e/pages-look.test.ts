@@ -18,7 +18,7 @@ interface AxeViolation { id: string, impact: string | null, help: string, nodes:
 let teacher: BrowserSession
 let student: BrowserSession
 let anonymous: BrowserSession
-let paths: { classId: number, attemptId: string, drillId: number, ownDrillId: number, setId: number, studentId: number, invitationToken: string }
+let paths: { studyId: number, classId: number, attemptId: string, drillId: number, ownDrillId: number, setId: number, studentId: number, invitationToken: string }
 
 beforeAll(async () => {
   const db = testDb()
@@ -26,13 +26,15 @@ beforeAll(async () => {
   const attempt = await db('attempts').where({ student_id: noor.id }).orderBy('created_at', 'desc').first('id', 'drill_id')
   const klass = await db('classes').where({ name: 'Tuesday Starters' }).first('id')
   const set = await db('drill_sets').orderBy('id').first('id')
+  // The demo's longest both-hands drill: a passage with a hand mark and often a shift mark on every card.
+  const study = await db('drills').where({ title: 'Harbour Lights (study), hands together' }).first('id')
   const own = await db('drills as d').join('users as u', 'u.id', 'd.owner_id').where('u.email', 'teacher@evenhand.test').orderBy('d.id').first('d.id')
   // An invitation waiting to be accepted, its link's token stored as its SHA-256 like the app stores it.
   const invitationToken = randomBytes(32).toString('base64url')
   const teacherRow = await db('users').where({ email: 'teacher@evenhand.test' }).first('id')
   const [invitationId] = await db('invitations').insert({ class_id: klass.id, email: `invited-look-${Date.now()}@evenhand.test`, invited_by: teacherRow.id, expires_at: new Date(Date.now() + 86_400_000) })
   await db('one_time_tokens').insert({ kind: 'invitation', token_hash: createHash('sha256').update(invitationToken).digest('hex'), subject: String(invitationId), expires_at: new Date(Date.now() + 86_400_000) })
-  paths = { classId: Number(klass.id), attemptId: String(attempt.id), drillId: Number(attempt.drill_id), ownDrillId: Number(own.id), setId: Number(set.id), studentId: Number(noor.id), invitationToken }
+  paths = { studyId: Number(study.id), classId: Number(klass.id), attemptId: String(attempt.id), drillId: Number(attempt.drill_id), ownDrillId: Number(own.id), setId: Number(set.id), studentId: Number(noor.id), invitationToken }
   ;[teacher, student, anonymous] = await Promise.all([openBrowser(), openBrowser(), openBrowser()])
   await signInAs(teacher.page, 'teacher@evenhand.test')
   await teacher.page.waitForURL(/\/teacher$/)
@@ -158,6 +160,65 @@ describe('layouts that fit', () => {
     await page.setViewportSize({ width: 844, height: 390 })
     await expect.poll(() => page.getByTestId('turn-hint').count()).toBe(0)
     expect((await page.getByTestId('keyboard').boundingBox())!.width).toBeGreaterThan(500)
+    await page.setViewportSize({ width: 1280, height: 800 })
+  })
+
+  it('fits the drill, the keyboard and the start on a phone held sideways without scrolling', async () => {
+    const { page } = student
+    await page.setViewportSize({ width: 844, height: 390 })
+    // The latest attempt's drill and a both-hands passage, whose note cards (two notes, hands and shift marks each)
+    // run far past the screen inside the strip.
+    for (const drillId of [paths.drillId, paths.studyId]) {
+      await page.goto(`/practice/${drillId}`)
+      await page.getByTestId('keyboard').waitFor()
+      for (const id of ['note-strip', 'keyboard', 'start']) {
+        const box = (await page.getByTestId(id).boundingBox())!
+        expect(box.y, `${drillId} ${id}`).toBeGreaterThanOrEqual(0)
+        expect(box.y + box.height, `${drillId} ${id}`).toBeLessThanOrEqual(390)
+      }
+      // The keys still take the width: white keys a finger wide, not a thumbnail.
+      expect((await page.getByTestId('keyboard').boundingBox())!.width).toBeGreaterThan(500)
+      if (drillId === paths.studyId) expect(await page.getByTestId('note-strip').evaluate(el => el.scrollWidth), 'the strip holds more than a screen').toBeGreaterThan(844)
+      expect(await page.evaluate(() => document.documentElement.scrollWidth), `drill ${drillId}`).toBeLessThanOrEqual(844)
+      expect(await page.getByRole('complementary', { name: 'Practise safely' }).isVisible()).toBe(true)
+    }
+    await page.setViewportSize({ width: 1280, height: 800 })
+  })
+
+  it('draws the computer-key map on a phone with no keycap over another and every label inside its cap', async () => {
+    const { page } = student
+    await page.setViewportSize({ width: 390, height: 844 })
+    await page.goto(`/practice/${paths.drillId}`)
+    // The input is a setting kept in the browser: it is put back as it was, even when it was a MIDI keyboard
+    // that is not connected here (whose option the menu shows but rightly does not offer).
+    const before = await page.locator('#play-with').inputValue()
+    const saved = await page.evaluate(() => localStorage.getItem('evenhand.practice-settings'))
+    await page.locator('#play-with').selectOption({ label: 'The computer keys' })
+    await page.getByTestId('key-map').scrollIntoViewIfNeeded()
+    const caps = await page.getByTestId('key-map').locator('.cap').evaluateAll(all => all.map((el) => {
+      const r = el.getBoundingClientRect()
+      const inner = [...el.children].map(c => c.getBoundingClientRect())
+      return { label: el.textContent!.trim(), box: { x: r.x, y: r.y, w: r.width, h: r.height }, inner: inner.map(c => ({ x: c.x, y: c.y, w: c.width, h: c.height })) }
+    }))
+    // Every row of the US keyboard, the mapped keys and the two octave keys.
+    expect(caps.length).toBeGreaterThanOrEqual(23)
+    type Box = { x: number, y: number, w: number, h: number }
+    const overlap = (a: Box, b: Box): number => Math.max(0, Math.min(a.x + a.w, b.x + b.w) - Math.max(a.x, b.x)) * Math.max(0, Math.min(a.y + a.h, b.y + b.h) - Math.max(a.y, b.y))
+    const crossing: string[] = []
+    caps.forEach((a, i) => caps.slice(i + 1).forEach((b) => {
+      if (overlap(a.box, b.box) > 0) crossing.push(`${a.label} × ${b.label}`)
+    }))
+    expect(crossing).toEqual([])
+    const spilling = caps.filter(c => c.inner.some(t => t.x < c.box.x - 0.5 || t.y < c.box.y - 0.5 || t.x + t.w > c.box.x + c.box.w + 0.5 || t.y + t.h > c.box.y + c.box.h + 0.5)
+      || (c.inner.length === 2 && overlap(c.inner[0]!, c.inner[1]!) > 0))
+    expect(spilling.map(c => c.label)).toEqual([])
+    const map = (await page.getByTestId('key-map').boundingBox())!
+    expect(map.x).toBeGreaterThanOrEqual(0)
+    expect(map.x + map.width).toBeLessThanOrEqual(390)
+    await page.evaluate(value => value === null ? localStorage.removeItem('evenhand.practice-settings') : localStorage.setItem('evenhand.practice-settings', value), saved)
+    await page.reload()
+    await expect.poll(() => page.locator('#play-with').inputValue()).toBe(before)
+    expect(await page.getByTestId('key-map').count()).toBe(before === 'computer-keys' ? 1 : 0)
     await page.setViewportSize({ width: 1280, height: 800 })
   })
 })

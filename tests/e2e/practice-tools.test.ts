@@ -29,7 +29,7 @@ function fakeMidiPlay(page: Page, notes: DrillNote[], beatMs: number): Promise<v
   return page.evaluate(n => (window as unknown as { __fakeMidi: { play: (n: unknown) => Promise<void> } }).__fakeMidi.play(n), timed)
 }
 
-async function latestAttempts(drillId: number, n: number): Promise<{ tempo_bpm: number, part_from_bar: number | null, part_to_bar: number | null, part_hand: string | null, total: number }[]> {
+async function latestAttempts(drillId: number, n: number): Promise<{ tempo_bpm: number, part_from_bar: number | null, part_to_bar: number | null, part_hand: string | null, total: number, created_at: Date }[]> {
   const rows = await testDb()('attempts').where({ student_id: studentId, drill_id: drillId }).orderBy('created_at', 'desc').limit(n)
   return rows.map(r => ({ ...r, tempo_bpm: Number(r.tempo_bpm), total: (typeof r.result === 'string' ? JSON.parse(r.result) : r.result).accuracy.total }))
 }
@@ -72,6 +72,52 @@ describe('the practice tools', () => {
     for (const a of await latestAttempts(five.id, 2)) {
       expect([a.part_from_bar, a.part_to_bar, a.part_hand, a.total]).toEqual([1, 1, null, bar1.length])
     }
+  })
+
+  it('loops without a count-in: the next pass starts one beat after the last, and each pass is saved', async () => {
+    const { page } = browser
+    await openDrill(page, five, `?assignment=${five.assignmentId}`)
+    await page.locator('#play-with').selectOption({ label: PLAY_WITH_LABEL.midi })
+    await openTools(page)
+    await page.locator('#to-bar').selectOption('1')
+    await page.getByTestId('loop').check()
+    await page.getByTestId('loop-count-in').uncheck()
+    const bar1 = five.notes.filter(n => n.beat < 4)
+    const before = (await latestAttempts(five.id, 1))[0]?.created_at ?? new Date(0)
+
+    const beatMs = await startPlaying(page)
+    // From here on, every text the status and the beat show, with the page's own clock.
+    await page.evaluate(() => {
+      const seen: { at: number, phase: string, beat: string }[] = []
+      ;(window as unknown as { __seen: typeof seen }).__seen = seen
+      const read = (): void => {
+        seen.push({ at: performance.now(), phase: document.querySelector('[data-testid="phase"]')!.textContent!.trim(), beat: document.querySelector('[data-testid="beat"]')!.textContent!.trim() })
+      }
+      new MutationObserver(read).observe(document.querySelector('[data-testid="phase"]')!.parentElement!, { subtree: true, childList: true, characterData: true })
+    })
+    await fakeMidiPlay(page, bar1, beatMs)
+    await page.getByRole('heading', { name: 'Pass 1' }).waitFor({ timeout: 15_000 })
+    await page.getByTestId('phase').filter({ hasText: 'Playing' }).waitFor({ timeout: 15_000 })
+    const seen = await page.evaluate(() => (window as unknown as { __seen: { at: number, phase: string, beat: string }[] }).__seen)
+    await fakeMidiPlay(page, bar1, beatMs)
+    await page.getByRole('heading', { name: 'Pass 2' }).waitFor({ timeout: 15_000 })
+    await page.getByRole('button', { name: 'Stop, don\'t keep' }).click()
+
+    // Between the passes: no count-in (no "Count-in…", no countdown), and playing again one beat after the first
+    // pass ended; a count-in would have taken a whole bar more.
+    const between = seen.slice(seen.findIndex(s => s.phase.startsWith('Playing')) + 1)
+    const ended = between.find(s => !s.phase.startsWith('Playing'))!
+    const again = between.find(s => s.at > ended.at && s.phase.startsWith('Playing'))!
+    expect(between.map(s => s.phase)).not.toContain('Count-in…')
+    expect(between.filter(s => /^\d+$/.test(s.beat))).toEqual([])
+    expect(again.at - ended.at).toBeGreaterThanOrEqual(beatMs * 0.9)
+    expect(again.at - ended.at).toBeLessThan(beatMs * 3.5)
+
+    await expect.poll(async () => (await latestAttempts(five.id, 2)).filter(a => a.created_at > before).length, { timeout: 15_000 }).toBe(2)
+    for (const a of await latestAttempts(five.id, 2)) {
+      expect([a.part_from_bar, a.part_to_bar, a.total]).toEqual([1, 1, bar1.length])
+    }
+    await page.getByTestId('loop').uncheck()
   })
 
   it('plays one hand of a both-hands drill while the app sounds the other, graded on that hand alone', async () => {

@@ -1,15 +1,24 @@
 // The practice page's piano, heard through chromium's own Web Audio graph: every connection to the
 // loudspeaker is also fed to analysers (audio-tap.ts), and fake MIDI keys play the sampled piano.
+import { Note } from 'tonal'
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest'
 import type { Page } from 'playwright-core'
 import { audioTapScript } from '../support/audio-tap'
 import { openStudentWithFakeMidi } from '../support/browser'
 import type { BrowserSession } from '../support/browser'
 import { FAKE_MIDI_INPUT_NAME } from '../support/fake-midi'
+import { assignedDrill, openDrill } from '../support/practice'
 import { closeTestDb, testDb } from '../support/server'
+import type { DrillNote } from '../../shared/types/drill'
 
 interface Heard { level: number, pitchHz: number, after: number }
-interface AudioTap { running: () => number, peakLevel: (ms: number) => Promise<number>, strongestBetween: (lowHz: number, highHz: number) => number }
+interface Followed { atMs: number, hz: number, db: number }
+interface AudioTap {
+  running: () => number
+  peakLevel: (ms: number) => Promise<number>
+  strongestBetween: (lowHz: number, highHz: number) => number
+  follow: (lowHz: number, highHz: number, ms: number, everyMs: number) => Promise<Followed[]>
+}
 
 // Equal temperament from A4 = 440 Hz (ISO 16) with MIDI note 69 = A4 (MIDI 1.0 note numbers).
 const hz = (midi: number): number => 440 * 2 ** ((midi - 69) / 12)
@@ -17,6 +26,27 @@ const hz = (midi: number): number => 440 * 2 ** ((midi - 69) / 12)
 const QUARTER_SEMITONE = 2 ** (1 / 48) - 1
 
 let browser: BrowserSession
+
+/** Follows the loudest pitch between `lowHz` and `highHz` for `ms`, every 20 ms. */
+function follow(page: Page, lowHz: number, highHz: number, ms: number): Promise<Followed[]> {
+  return page.evaluate(({ lowHz, highHz, ms }) => (window as unknown as { __audioTap: AudioTap }).__audioTap.follow(lowHz, highHz, ms, 20), { lowHz, highHz, ms })
+}
+
+/** The notes heard, in order: each reading within 25 dB of the loudest, at its nearest MIDI note, repeats merged. */
+function melody(heard: Followed[]): number[] {
+  const loudest = Math.max(...heard.map(h => h.db))
+  const notes = heard.filter(h => h.db > loudest - 25).map(h => Math.round(69 + 12 * Math.log2(h.hz / 440)))
+  return notes.filter((n, i) => i === 0 || n !== notes[i - 1])
+}
+
+/** Whether `part` appears in `whole` in order, other notes allowed between. */
+function inOrder(part: number[], whole: number[]): boolean {
+  let k = 0
+  for (const n of whole) if (n === part[k]) k++
+  return k === part.length
+}
+
+const midiOf = (notes: DrillNote[]): number[] => notes.map(n => Note.midi(n.pitch)!)
 
 /**
  * Presses `note` with `velocity` (and the sustain pedal first, if `pedal`), reads the loudest level
@@ -101,5 +131,58 @@ describe('the piano on the practice page', () => {
     await sound.check()
     const heard = await strike(page, 60, 110)
     expect(muted.level).toBeLessThan(heard.level * 0.01)
+  })
+})
+
+describe('the app\'s own playing', () => {
+  it('plays the drill for "listen first", each note at its pitch in the drill\'s order', async () => {
+    const { page } = browser
+    const five = await assignedDrill('Five-finger pattern in C, right hand', 'Tuesday Starters')
+    await openDrill(page, five, `?assignment=${five.assignmentId}`)
+    await page.getByTestId('start').filter({ hasText: 'Start' }).waitFor({ timeout: 20_000 })
+    const beatMs = 60_000 / Number(await page.locator('#tempo').inputValue())
+    const lastMs = Math.max(...five.notes.map(n => (n.beat + n.length) * beatMs))
+    await page.getByTestId('practice-tools').locator('summary').click()
+    await page.getByTestId('listen').click()
+    // C4 to G4, a little either side; the notes' overtones lie above.
+    const heard = await follow(page, hz(60) * 0.95, hz(67) * 1.05, lastMs + 1200)
+    expect(Math.max(...heard.map(h => h.db))).toBeGreaterThan(-60)
+    const notes = melody(heard)
+    expect(inOrder(midiOf(five.notes), notes), `heard ${notes.join(' ')}`).toBe(true)
+    await page.getByTestId('announcer').filter({ hasText: 'Your turn.' }).waitFor({ timeout: 20_000 })
+  })
+
+  it('sounds the other hand at tempo while the student plays one hand, and nothing there when it is set silent', async () => {
+    const { page } = browser
+    const both = await assignedDrill('D major scale, hands together', 'Thursday Developing')
+    const left = both.notes.filter(n => n.hand === 'left')
+    // The left hand's register below the right hand's first note (D4), which the left hand ends on too.
+    const below = left.filter(n => Note.midi(n.pitch)! < 62)
+    const [lowHz, highHz] = [hz(Note.midi(below[0]!.pitch)!) * 0.95, hz(61) * 1.03]
+    await openDrill(page, both, `?assignment=${both.assignmentId}`)
+    await page.getByTestId('start').filter({ hasText: 'Start' }).waitFor({ timeout: 20_000 })
+    await page.getByTestId('practice-tools').locator('summary').click()
+    await page.locator('#hand').selectOption('right')
+    const beatMs = 60_000 / Number(await page.locator('#tempo').inputValue())
+    const spanMs = Math.max(...left.map(n => (n.beat + n.length) * beatMs))
+
+    /** One pass in which the student plays nothing: what the left hand's register holds from the start to the end. */
+    const pass = async (): Promise<Followed[]> => {
+      await page.getByTestId('start').click()
+      await page.getByTestId('phase').filter({ hasText: 'Playing' }).waitFor({ timeout: 15_000 })
+      const heard = await follow(page, lowHz, highHz, spanMs + 600)
+      await page.getByRole('button', { name: 'Stop, don\'t keep' }).click()
+      return heard
+    }
+
+    expect(await page.getByTestId('other-hand').isChecked()).toBe(true)
+    const sounded = await pass()
+    const notes = melody(sounded)
+    expect(inOrder(midiOf(below), notes), `heard ${notes.join(' ')}`).toBe(true)
+    await page.getByTestId('other-hand').uncheck()
+    const silent = await pass()
+    // Only the metronome's clicks (C6 and G6) reach that register when the other hand is silent.
+    expect(Math.max(...silent.map(h => h.db))).toBeLessThan(Math.max(...sounded.map(h => h.db)) - 20)
+    await page.getByTestId('other-hand').check()
   })
 })

@@ -50,17 +50,33 @@ export const audioTapScript = `(() => {
       read()
     }),
     /** The strongest frequency (Hz) between lowHz and highHz in the loudest output's last 16,384 samples. */
-    strongestBetween: (lowHz, highHz) => {
-      const tap = loudest()
-      const bins = new Float32Array(tap.spectrum.frequencyBinCount)
-      tap.spectrum.getFloatFrequencyData(bins)
-      const hzPerBin = tap.ctx.sampleRate / tap.spectrum.fftSize
-      let best = Math.ceil(lowHz / hzPerBin)
-      for (let i = best; i <= Math.floor(highHz / hzPerBin); i++) if (bins[i] > bins[best]) best = i
-      // A parabola through the peak bin and its neighbours places the peak between bins.
-      const [a, b, c] = [bins[best - 1], bins[best], bins[best + 1]]
-      const offset = (a - c) / (2 * (a - 2 * b + c)) || 0
-      return (best + offset) * hzPerBin
-    },
+    strongestBetween: (lowHz, highHz) => strongest(lowHz, highHz).hz,
+    /**
+     * Every \`everyMs\` for \`ms\`: the strongest frequency between lowHz and highHz and its level (dB), as a
+     * listener would follow a melody in that register.
+     */
+    follow: (lowHz, highHz, ms, everyMs) => new Promise((resolve) => {
+      const heard = []
+      const end = performance.now() + ms
+      const read = () => {
+        heard.push({ atMs: performance.now(), ...strongest(lowHz, highHz) })
+        if (performance.now() < end) setTimeout(read, everyMs)
+        else resolve(heard)
+      }
+      read()
+    }),
+  }
+  function strongest(lowHz, highHz) {
+    const tap = loudest()
+    if (!tap) return { hz: 0, db: -Infinity }
+    const bins = new Float32Array(tap.spectrum.frequencyBinCount)
+    tap.spectrum.getFloatFrequencyData(bins)
+    const hzPerBin = tap.ctx.sampleRate / tap.spectrum.fftSize
+    let best = Math.ceil(lowHz / hzPerBin)
+    for (let i = best; i <= Math.floor(highHz / hzPerBin); i++) if (bins[i] > bins[best]) best = i
+    // A parabola through the peak bin and its neighbours places the peak between bins.
+    const [a, b, c] = [bins[best - 1], bins[best], bins[best + 1]]
+    const offset = (a - c) / (2 * (a - 2 * b + c)) || 0
+    return { hz: (best + offset) * hzPerBin, db: b }
   }
 })()`
