@@ -45,17 +45,22 @@ async function openWithTools(page: Page, drill: AssignedDrill): Promise<void> {
   await openTools(page)
 }
 
+/** The five-finger drill with its first bar chosen and looped; returns that bar's notes. */
+async function loopFirstBar(page: Page): Promise<DrillNote[]> {
+  await openWithTools(page, five)
+  await page.locator('#to-bar').selectOption('1')
+  await page.getByTestId('loop').check()
+  return five.notes.filter(n => n.beat < 4)
+}
+
 describe('the practice tools', () => {
   it('loops a bar, saving each pass as an attempt of that bar, on a ladder that climbs after a good pass', async () => {
     const { page } = browser
-    await openWithTools(page, five)
-    await page.locator('#to-bar').selectOption('1')
-    await page.getByTestId('loop').check()
+    const bar1 = await loopFirstBar(page)
     await page.getByTestId('ladder').check()
     await page.getByLabel('After').selectOption('70')
     const start = Math.round(five.targetBpm * 0.7)
     expect(Number(await page.locator('#tempo').inputValue())).toBe(start)
-    const bar1 = five.notes.filter(n => n.beat < 4)
 
     const beatMs = await startPlaying(page)
     await page.getByTestId('announcer').filter({ hasText: 'Play now.' }).waitFor()
@@ -76,13 +81,8 @@ describe('the practice tools', () => {
 
   it('loops without a count-in: the next pass starts one beat after the last, and each pass is saved', async () => {
     const { page } = browser
-    await openDrill(page, five, `?assignment=${five.assignmentId}`)
-    await page.locator('#play-with').selectOption({ label: PLAY_WITH_LABEL.midi })
-    await openTools(page)
-    await page.locator('#to-bar').selectOption('1')
-    await page.getByTestId('loop').check()
+    const bar1 = await loopFirstBar(page)
     await page.getByTestId('loop-count-in').uncheck()
-    const bar1 = five.notes.filter(n => n.beat < 4)
     const before = (await latestAttempts(five.id, 1))[0]?.created_at ?? new Date(0)
 
     const beatMs = await startPlaying(page)
