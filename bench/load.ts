@@ -27,6 +27,8 @@ if (!['127.0.0.1', 'localhost', '[::1]'].includes(url.hostname)) {
   process.exit(2)
 }
 const SECONDS = Math.min(600, Math.max(1, Number(process.env.LOAD_SECONDS ?? 60)))
+// `a`, `b` or both (default): one scenario alone, e.g. while profiling the server.
+const SCENARIOS = process.env.LOAD_SCENARIOS ?? 'ab'
 const NOTES = 200
 const PASSWORD = 'evenhand-demo'
 const STUDENTS = ['student', 'theo', 'ada', 'samir', 'lucia', 'jonah'].map(n => `${n}@evenhand.test`)
@@ -81,7 +83,14 @@ try {
   const { classes } = await getJson<{ classes: { id: number }[] }>('/api/classes', teacher)
   console.log(`load against ${url.origin}, ${SECONDS} s per scenario, ${players.length} students, ${NOTES}-note attempts (shared machine: figures are noisy)\n`)
 
-  // (a) saturation
+  if (SCENARIOS.includes('a')) await saturation(players)
+  if (SCENARIOS.includes('b')) await openLoop(players, teacher, classes)
+}
+finally {
+  await db.destroy()
+}
+
+async function saturation(players: Player[]): Promise<void> {
   const before = await countAttempts()
   let turn = 0
   const result = await autocannon({
@@ -116,8 +125,10 @@ try {
     // Never below 0 (a lost attempt); at most the 100 requests cut off in flight at the end.
     'stored - 201 (cut off in flight)': stored - acknowledged,
   }])
+}
 
-  // (b) open loop: requests leave on schedule, whether or not earlier ones have answered.
+/** (b) open loop: requests leave on schedule, whether or not earlier ones have answered. */
+async function openLoop(players: Player[], teacher: string, classes: { id: number }[]): Promise<void> {
   const RATE = 50
   const routes: { name: string, every: number, send: (i: number) => Promise<Response> }[] = [
     { name: 'POST /api/attempts', every: 1, send: (i) => {
@@ -155,7 +166,4 @@ try {
     const sorted = s.ms.sort((a, b) => a - b)
     return { 'route': r.name, 'requests/s': +(RATE / r.every).toFixed(1), 'p50 ms': Math.round(pct(sorted, 0.5)), 'p99 ms': Math.round(pct(sorted, 0.99)), 'statuses': JSON.stringify(s.codes) }
   }))
-}
-finally {
-  await db.destroy()
 }

@@ -2,6 +2,7 @@ import type { Knex } from 'knex'
 import { z } from 'zod'
 import type { User } from '#auth-utils'
 import type { AttemptInput, AttemptListQuery, AttemptPart } from '#shared/types/attempt'
+import type { DrillHand, DrillNote } from '#shared/types/drill'
 import { beatsPerBar, drillPart } from '#shared/utils/part'
 import { trustedEvents } from '#shared/utils/timeline'
 import { ENGINE_VERSION, gradeAttempt, type GradeResult } from '#shared/engine'
@@ -57,6 +58,21 @@ export function toAttemptSummary(row: AttemptRow): AttemptSummary {
   }
 }
 
+type CommentRow = Record<string, unknown>
+
+/** A whole attempt from its row (JSON columns as text, or as the values about to be stored) and its comments. */
+function toAttemptDetail(row: AttemptRow, comments: CommentRow[]): AttemptDetail {
+  return {
+    ...toAttemptSummary(row),
+    deviceName: (row.device_name as string | null) ?? null,
+    part: row.part_from_bar == null ? null : { fromBar: Number(row.part_from_bar), toBar: Number(row.part_to_bar), hand: (row.part_hand as AttemptPart['hand']) ?? null },
+    events: parseJson(row.events),
+    pedal: row.pedal ? parseJson(row.pedal) : [],
+    result: parseJson(row.result),
+    comments: comments.map(c => ({ id: Number(c.id), teacherId: Number(c.teacher_id), teacherName: String(c.name), body: String(c.body), createdAt: new Date(c.created_at as string).toISOString(), readAt: c.read_at ? new Date(c.read_at as string).toISOString() : null })),
+  }
+}
+
 /** The columns a list needs; raw events stay out of lists because they are the bulk of a row. */
 export const SUMMARY_COLUMNS = ['id', 'student_id', 'drill_id', 'drill_version', 'assignment_id', 'started_at', 'tempo_bpm', 'input_device', 'score', 'result', 'engine_version']
 
@@ -103,71 +119,84 @@ export async function loadAttempt(db: Knex, id: string): Promise<AttemptDetail |
   const comments = await db('comments as c').join('users as u', 'u.id', 'c.teacher_id')
     .where('c.attempt_id', id).orderBy('c.created_at')
     .select('c.id', 'c.teacher_id', 'u.name', 'c.body', 'c.created_at', 'c.read_at')
-  return {
-    ...toAttemptSummary(row),
-    deviceName: row.device_name ?? null,
-    part: row.part_from_bar == null ? null : { fromBar: Number(row.part_from_bar), toBar: Number(row.part_to_bar), hand: row.part_hand ?? null },
-    events: parseJson(row.events),
-    pedal: row.pedal ? parseJson(row.pedal) : [],
-    result: parseJson(row.result),
-    comments: comments.map(c => ({ id: Number(c.id), teacherId: Number(c.teacher_id), teacherName: c.name, body: c.body, createdAt: new Date(c.created_at).toISOString(), readAt: c.read_at ? new Date(c.read_at).toISOString() : null })),
+  return toAttemptDetail(row, comments)
+}
+
+interface PlayedDrill { hand: DrillHand, tempoBpm: number, meter: string, notes: DrillNote[], targetBpm: number }
+
+/**
+ * The drill version an attempt was played on and the tempo it was played against, in one query: a 404 for a
+ * drill the student may not open, a 400 for a version that does not exist or an assignment without the drill.
+ */
+async function playedDrill(db: Knex, student: User, input: AttemptInput): Promise<PlayedDrill> {
+  const columns = ['d.meter', 'v.version', 'v.hand', 'v.tempo_bpm', 'v.notes']
+  const q = db('drills as d')
+    .leftJoin('drill_versions as v', j => j.on('v.drill_id', 'd.id').andOnVal('v.version', input.drillVersion))
+    .where('d.id', input.drillId).whereIn('d.id', visibleDrillIds(db, student))
+  if (input.assignmentId) {
+    const item = assignmentsOfStudent(db, student.id).clone()
+      .join('drill_set_items as dsi', 'dsi.drill_set_id', 'a.drill_set_id')
+      .where('a.id', input.assignmentId).where('dsi.drill_id', input.drillId)
+      .select('dsi.drill_id', 'dsi.target_tempo_bpm').limit(1)
+    q.leftJoin(item.as('item'), 'item.drill_id', 'd.id')
+    columns.push('item.drill_id as item_drill_id', 'item.target_tempo_bpm as item_tempo_bpm')
   }
+  const row = await q.first(columns)
+  if (!row) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'drillId: Drill not found' })
+  if (row.version == null) throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'drillVersion: This version of the drill does not exist' })
+  if (input.assignmentId && row.item_drill_id == null) throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'assignmentId: This assignment does not include the drill' })
+  const tempoBpm = Number(row.tempo_bpm)
+  return { hand: row.hand, tempoBpm, meter: row.meter, notes: parseJson<DrillNote[]>(row.notes), targetBpm: row.item_tempo_bpm == null ? tempoBpm : Number(row.item_tempo_bpm) }
 }
 
 /**
  * Grades an attempt on the server from its raw events (the browser's figures are never trusted) and stores it.
- * Idempotent on the client's id: a second save of the same attempt returns the stored one.
+ * Idempotent on the client's id: a second save of the same attempt returns the stored one. A new attempt, the
+ * common case, costs two queries (the drill, the insert) and is answered from the values stored, not read back;
+ * a copy already stored shows as a duplicate key, or, when its drill has since been hidden or changed, is
+ * looked for before the refusal.
  */
 export async function saveAttempt(db: Knex, student: User, input: AttemptInput): Promise<{ attempt: AttemptDetail, created: boolean }> {
-  const existing = await db('attempts').where({ id: input.id }).first('student_id')
-  if (existing) return { attempt: await ownStored(db, student, input.id), created: false }
-
-  const drillVisible = await db.from(visibleDrillIds(db, student).as('v')).where('v.id', input.drillId).first()
-  if (!drillVisible) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'drillId: Drill not found' })
-  const drill = await drillVersion(db, input.drillId, input.drillVersion)
-  if (!drill) throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'drillVersion: This version of the drill does not exist' })
-
-  let targetBpm = drill.tempoBpm
-  if (input.assignmentId) {
-    const item = await assignmentsOfStudent(db, student.id).clone()
-      .join('drill_set_items as dsi', 'dsi.drill_set_id', 'a.drill_set_id')
-      .where('a.id', input.assignmentId).where('dsi.drill_id', input.drillId)
-      .first('dsi.target_tempo_bpm')
-    if (!item) throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'assignmentId: This assignment does not include the drill' })
-    targetBpm = item.target_tempo_bpm ?? targetBpm
+  let drill: PlayedDrill
+  try {
+    drill = await playedDrill(db, student, input)
+  }
+  catch (error) {
+    if (await db('attempts').where({ id: input.id }).first('id')) return { attempt: await ownStored(db, student, input.id), created: false }
+    throw error
   }
 
   const events = trustedEvents(input.events, input.inputDevice)
   const part = drillPart({ hand: drill.hand, tempoBpm: drill.tempoBpm, notes: drill.notes }, input.part, beatsPerBar(drill.meter))
   if (!part) throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'part: These bars hold no notes for that hand' })
-  const result = gradeAttempt(part.music, events, { targetBpm })
+  const result = gradeAttempt(part.music, events, { targetBpm: drill.targetBpm })
+  const row = {
+    id: input.id,
+    student_id: student.id,
+    drill_id: input.drillId,
+    drill_version: input.drillVersion,
+    assignment_id: input.assignmentId ?? null,
+    started_at: new Date(input.startedAt),
+    // Rounded here to the column's tenth (DECIMAL(5,1)), so the answer holds what is stored.
+    tempo_bpm: Math.round(input.tempoBpm * 10) / 10,
+    input_device: input.inputDevice,
+    // As stored in utf8mb4: a lone surrogate becomes U+FFFD.
+    device_name: input.deviceName?.toWellFormed() ?? null,
+    part_from_bar: input.part?.fromBar ?? null,
+    part_to_bar: input.part?.toBar ?? null,
+    part_hand: input.part?.hand ?? null,
+    score: Math.round(result.score),
+    engine_version: ENGINE_VERSION,
+  }
   try {
-    await db('attempts').insert({
-      id: input.id,
-      student_id: student.id,
-      drill_id: input.drillId,
-      drill_version: input.drillVersion,
-      assignment_id: input.assignmentId ?? null,
-      started_at: new Date(input.startedAt),
-      tempo_bpm: input.tempoBpm,
-      input_device: input.inputDevice,
-      device_name: input.deviceName ?? null,
-      events: JSON.stringify(events),
-      pedal: input.pedal ? JSON.stringify(input.pedal) : null,
-      part_from_bar: input.part?.fromBar ?? null,
-      part_to_bar: input.part?.toBar ?? null,
-      part_hand: input.part?.hand ?? null,
-      score: Math.round(result.score),
-      result: JSON.stringify(result),
-      engine_version: ENGINE_VERSION,
-    })
+    await db('attempts').insert({ ...row, events: JSON.stringify(events), pedal: input.pedal ? JSON.stringify(input.pedal) : null, result: JSON.stringify(result) })
   }
   catch (error) {
-    // Two copies of one attempt racing in: the first insert wins, the second reads it back.
+    // Two copies of one attempt racing in (or a copy sent again): the first insert wins, the others read it back.
     if ((error as { code?: string }).code !== 'ER_DUP_ENTRY') throw error
     return { attempt: await ownStored(db, student, input.id), created: false }
   }
-  return { attempt: (await loadAttempt(db, input.id))!, created: true }
+  return { attempt: toAttemptDetail({ ...row, events, pedal: input.pedal ?? null, result }, []), created: true }
 }
 
 async function ownStored(db: Knex, student: User, id: string): Promise<AttemptDetail> {

@@ -5,6 +5,43 @@ import { RateLimiterMySQL, RateLimiterRes } from 'rate-limiter-flexible'
 
 export type LimitName = 'signInIp' | 'signInAccount' | 'signUpIp' | 'joinCode' | 'attempts' | 'forgotIp' | 'forgotAddress'
 
+const TABLE = 'rate_limits'
+
+interface StoredCount { points: number, expire: number | null }
+type Upsert = (key: string, points: number, msDuration: number, forceExpire?: boolean) => Promise<StoredCount[]>
+/** The library's own store method, which this class replaces for plain spends. */
+const libraryUpsert = (RateLimiterMySQL.prototype as unknown as { _upsert: Upsert })._upsert
+
+/**
+ * rate-limiter-flexible's MySQL store spends points in a transaction of four statements (BEGIN, an upsert, a
+ * SELECT of the new count, COMMIT): four round trips to MariaDB, with the key's row locked throughout. This
+ * store spends them in one statement, the same upsert, which hands the new count back through
+ * `LAST_INSERT_ID(expr)`: MariaDB returns that value as the statement's insert id (MariaDB manual,
+ * "LAST_INSERT_ID"), while a first spend inserts the row and its count is the points spent. The window's end
+ * is then known when the window starts with this spend, and read only when the key is refused (its
+ * Retry-After); an accepted spend in a running window reports none (`msBeforeNext` -1), which nothing reads.
+ * Anything else the library asks of its store (block, set, a negative spend) keeps its own transaction.
+ */
+class OneStatementLimiter extends RateLimiterMySQL {
+  async _upsert(key: string, points: number, msDuration: number, forceExpire = false): Promise<StoredCount[]> {
+    if (forceExpire || points <= 0) return await libraryUpsert.call(this, key, points, msDuration, forceExpire)
+    const db = useDb()
+    const now = Date.now()
+    const expire = msDuration > 0 ? now + msDuration : null
+    const [reply] = await db.raw(`INSERT INTO ?? (\`key\`, points, expire) VALUES (?, ?, ?)
+      ON DUPLICATE KEY UPDATE points = LAST_INSERT_ID(IF(expire <= ?, ?, points + ?)), expire = IF(expire <= ?, ?, expire)`,
+    [TABLE, key, points, expire, now, points, points, now, expire])
+    const { affectedRows, insertId } = reply as { affectedRows: number, insertId: number }
+    // 1: inserted; 2: updated (the count always changes, so never 0 or 1 for an existing row).
+    const count = affectedRows === 1 ? points : insertId
+    if (count > this.points || !(count >= points)) {
+      const row = await db(TABLE).where('key', key).first('points', 'expire')
+      if (row) return [{ points: Number(row.points), expire: row.expire == null ? null : Number(row.expire) }]
+    }
+    return [{ points: count, expire: count === points ? expire : null }]
+  }
+}
+
 const limiters = new Map<LimitName, RateLimiterMySQL>()
 
 function limiter(name: LimitName): RateLimiterMySQL {
@@ -20,11 +57,11 @@ function limiter(name: LimitName): RateLimiterMySQL {
       forgotIp: { points: Number(limits.forgotPerIpPerHour), duration: 3600 },
       forgotAddress: { points: Number(limits.forgotPerAddressPerHour), duration: 3600 },
     }
-    found = new RateLimiterMySQL({
+    found = new OneStatementLimiter({
       storeClient: useDb(),
       storeType: 'knex',
       dbName: String(db.database),
-      tableName: 'rate_limits',
+      tableName: TABLE,
       tableCreated: true,
       keyPrefix: name,
       ...spec[name],

@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Client, closeTestDb, testDb } from '../support/server'
 import { attemptBody as attemptFor, play, scaleDrill } from '../support/attempts'
+import { makeAccount } from '../support/accounts'
 import type { DrillReply } from '../support/attempts'
 import type { PlayedEvent } from '../../shared/types/attempt'
 
@@ -98,6 +99,67 @@ describe('POST /api/attempts', () => {
     expect((await noor.post('/api/attempts', body)).status).toBe(201)
     const theo = await new Client().signIn('theo@evenhand.test')
     expect((await theo.get(`/api/attempts/${body.id}`)).status).toBe(404)
+    const taken = await theo.post('/api/attempts', { ...body, events: [] })
+    expect(taken.status).toBe(409)
+    expect(taken.body.message).toMatch(/^id:/)
+    const noorId = (await testDb()('users').where({ email: 'student@evenhand.test' }).first('id')).id
+    const rows = await testDb()('attempts').where({ id: body.id }).select('student_id', 'score')
+    expect(rows).toHaveLength(1)
+    expect(Number(rows[0].student_id)).toBe(Number(noorId))
+    expect(rows[0].score).toBeGreaterThan(70)
+  })
+
+  // The save answers from the values it stored instead of reading the row back: the answer must be the row.
+  it.each([
+    ['a whole drill played for its assignment', () => ({})],
+    ['one bar of one hand, with the pedal, a tempo in hundredths and a device name MariaDB must mend', () => ({
+      events: play(drill.drill.notes.filter(n => n.beat >= 4).map(n => ({ ...n, beat: n.beat - 4 })), 71.25),
+      part: { fromBar: 2, toBar: 2, hand: 'right' },
+      pedal: [{ down: true, timeMs: 5.5 }, { down: false, timeMs: 900 }],
+      tempoBpm: 71.25,
+      deviceName: '  Stage piano \ud83c ',
+    })],
+    ['the on-screen keys, no assignment, a start with an offset and microseconds', () => ({
+      inputDevice: 'screen',
+      assignmentId: null,
+      deviceName: undefined,
+      startedAt: '2026-12-03T09:15:30.123456+01:00',
+      tempoBpm: 60.04,
+    })],
+  ])('answers %s exactly as the stored attempt reads back', async (_, change) => {
+    const id = randomUUID()
+    const body = { ...attemptBody(id), ...change() }
+    const saved = await noor.post<AttemptReply>('/api/attempts', body)
+    expect(saved.status).toBe(201)
+    const read = await noor.get<AttemptReply>(`/api/attempts/${id}`)
+    expect(read.status).toBe(200)
+    expect(saved.body.attempt).toEqual(read.body.attempt)
+    expect(saved.body.attempt.id).toBe(id)
+  })
+
+  it('answers a copy of a stored attempt with it after its drill was taken from the student, and refuses a new one', async () => {
+    const teacher = await makeAccount('teacher')
+    const student = await makeAccount('student')
+    const cls = (await teacher.client.post<{ id: number, joinCode: string }>('/api/classes', { name: 'Withdrawn drills' })).body
+    expect((await student.client.post('/api/classes/join', { code: cls.joinCode })).status).toBe(200)
+    const drillId = (await teacher.client.post<{ id: number }>('/api/drills', { hand: 'right', tempoBpm: 80, meter: '4/4', key: 'C major', level: 1, kind: 'scale', tags: [], title: 'A private five-finger drill', notation: 'C4/1 D4/2 E4/3 F4/4 | G4/5' })).body.id
+    const setId = (await teacher.client.post<{ id: number }>('/api/drill-sets', { title: 'Private set', items: [{ drillId }] })).body.id
+    const dueOn = new Date(Date.now() + 7 * 86_400_000).toISOString().slice(0, 10)
+    const assignmentId = (await teacher.client.post<{ id: number }>('/api/assignments', { drillSetId: setId, studentId: student.id, dueOn, timeZone: 'UTC' })).body.id
+    const reply = (await student.client.get<DrillReply>(`/api/drills/${drillId}`)).body
+    const body = attemptFor(reply, { assignmentId })
+    const first = await student.client.post<AttemptReply>('/api/attempts', body)
+    expect(first.status).toBe(201)
+
+    expect((await teacher.client.request('DELETE', `/api/assignments/${assignmentId}`)).status).toBe(204)
+    // The outbox sends again when an answer was lost: the attempt is stored, so it is answered, not refused.
+    const again = await student.client.post<AttemptReply>('/api/attempts', body)
+    expect(again.status).toBe(200)
+    expect(again.body.attempt).toEqual({ ...first.body.attempt, assignmentId: null })
+    const fresh = await student.client.post('/api/attempts', { ...body, id: randomUUID(), assignmentId: null })
+    expect(fresh.status).toBe(404)
+    expect(fresh.body.message).toMatch(/^drillId:/)
+    expect(await testDb()('attempts').where({ student_id: student.id }).count({ n: '*' })).toEqual([{ n: 1 }])
   })
 })
 

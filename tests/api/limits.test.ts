@@ -4,6 +4,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Client, closeTestDb, testDb } from '../support/server'
 import { LOOPBACK_ADDRESSES, makeAccount, TEST_PASSWORD } from '../support/accounts'
 import { attemptBody, scaleDrill } from '../support/attempts'
+import type { DrillReply } from '../support/attempts'
+import { publicDrillIds } from '../support/studio'
 
 afterAll(closeTestDb)
 
@@ -159,6 +161,11 @@ describe('password links', () => {
   })
 })
 
+/** A drill of the shared library, which any student may play. */
+async function publicDrill(student: Client): Promise<DrillReply> {
+  return (await student.get<DrillReply>(`/api/drills/${(await publicDrillIds())[0]}`)).body
+}
+
 describe('attempts per student per minute', () => {
   let noor: Client
   let noorId: string
@@ -182,6 +189,35 @@ describe('attempts per student per minute', () => {
       await release('attempts', [noorId])
     }
     expect((await noor.post('/api/attempts', body)).status).toBe(201)
+  })
+
+  // The counter is spent in one statement that hands the new count back (server/utils/rate-limits.ts).
+  it('counts attempts sent at once exactly: the ones left are taken, every other is refused and stores nothing', async () => {
+    const student = await makeAccount('student')
+    const drill = await publicDrill(student.client)
+    const limit = Number(process.env.NUXT_LIMITS_ATTEMPTS_PER_STUDENT_PER_MINUTE ?? 30)
+    await testDb()('rate_limits').insert({ key: `attempts:${student.id}`, points: limit - 4, expire: Date.now() + 60_000 })
+    const bodies = Array.from({ length: 10 }, () => attemptBody(drill))
+    const statuses = await Promise.all(bodies.map(async body => (await student.client.post('/api/attempts', body)).status))
+    expect(statuses.filter(s => s === 201)).toHaveLength(4)
+    expect(statuses.filter(s => s === 429)).toHaveLength(6)
+    expect(await testDb()('attempts').where({ student_id: student.id }).count({ n: '*' })).toEqual([{ n: 4 }])
+    const row = await testDb()('rate_limits').where({ key: `attempts:${student.id}` }).first('points')
+    expect(row.points).toBe(limit + 6)
+    await release('attempts', [String(student.id)])
+  })
+
+  it('starts a new minute when the last one has ended, however many it spent', async () => {
+    const student = await makeAccount('student')
+    const drill = await publicDrill(student.client)
+    await testDb()('rate_limits').insert({ key: `attempts:${student.id}`, points: 1_000_000, expire: Date.now() - 1000 })
+    const before = Date.now()
+    expect((await student.client.post('/api/attempts', attemptBody(drill))).status).toBe(201)
+    const row = await testDb()('rate_limits').where({ key: `attempts:${student.id}` }).first('points', 'expire')
+    expect(row.points).toBe(1)
+    expect(Number(row.expire)).toBeGreaterThanOrEqual(before + 60_000)
+    expect(Number(row.expire)).toBeLessThanOrEqual(Date.now() + 60_000)
+    await release('attempts', [String(student.id)])
   })
 })
 
