@@ -1,6 +1,6 @@
 /**
  * A change a teacher asks for with one button (rename, archive, remove, withdraw): optionally
- * confirmed first, then `done` (a refresh) once it worked; its error is kept for the page to show.
+ * confirmed first (`removeAfterAsking` for a delete), then `done` (a refresh) once it worked; its error is kept for the page to show.
  */
 export function useStudioAction(done: () => unknown) {
   const error = ref('')
@@ -22,5 +22,10 @@ export function useStudioAction(done: () => unknown) {
     }
   }
 
-  return { error, busy, run }
+  /** Deletes what `url` names once the teacher has said yes to `question`. */
+  const removeAfterAsking = (url: string, question: string): Promise<void> => run(async () => {
+    await $fetch(url, { method: 'DELETE' })
+  }, question)
+
+  return { error, busy, run, removeAfterAsking }
 }

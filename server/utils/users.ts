@@ -1,7 +1,8 @@
 import type { Knex } from 'knex'
+import type { Role } from '#shared/types/account'
 
 /** A new account; an e-mail that already has one is a 409 naming the field. */
-export async function insertUser(db: Knex | Knex.Transaction, input: { email: string, name: string, passwordHash: string, role: 'teacher' | 'student' }): Promise<number> {
+export async function insertUser(db: Knex | Knex.Transaction, input: { email: string, name: string, passwordHash: string, role: Exclude<Role, 'admin'> }): Promise<number> {
   try {
     const [id] = await db('users').insert({ email: input.email, name: input.name, password_hash: input.passwordHash, role: input.role })
     return Number(id)

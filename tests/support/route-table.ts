@@ -10,6 +10,7 @@ import { attemptBody, type DrillReply } from './attempts'
 import { Client, testDb } from './server'
 import { publicDrillIds } from './studio'
 import { EVENING_STUDY } from '../fixtures/drill-files'
+import type { Role } from '../../shared/types/account'
 
 /** The callers, in the order of every `expect` tuple below. */
 export const CALLERS = ['anonymous', 'admin', 'owner', 'otherTeacher', 'ownStudent', 'classmate', 'otherStudent'] as const
@@ -55,7 +56,7 @@ export function methodOf(route: string): string {
   return route.split(' ')[0]!
 }
 
-interface Account extends TestAccount { role: 'teacher' | 'student' | 'admin' }
+interface Account extends TestAccount { role: Role }
 
 /**
  * The studio every row plays in: the owning teacher's class holds the own student and a classmate; another teacher's
