@@ -151,21 +151,45 @@ function pairIssues(table: SpanRow[][], notes: LineItem[], i: number, a: Touch, 
   }
   const { row, s } = pairSpan(table, a.f, a.k, b.f, b.k)
   if (thumb && s < 0 && -s <= arpeggioPassReach(a.f === 1 ? b.f : a.f)) return
-  spanIssue(row, s, i, `${where}: ${FINGER_WORDS[Math.min(a.f, b.f) as Finger]} and ${FINGER_WORDS[Math.max(a.f, b.f) as Finger]}`, handSize, report)
+  spanIssue(row, s, i, where, Math.min(a.f, b.f) as Finger, Math.max(a.f, b.f) as Finger, handSize, report)
 }
 
-function spanIssue(row: SpanRow, s: number, i: number, what: string, handSize: HandSize, report: (index: number, rule: CheckRule, message: string) => void): void {
+/**
+ * Names a span of fingers lo < hi outside the comfortable or practical range of their pair. Keys lie a
+ * whole number of semitones apart, so the figure a message gives for a limit is the widest (or, for
+ * fingers too close, the narrowest) whole number of semitones still within it: a span is outside the
+ * limit exactly when it passes that figure, and a message never sets a span against a limit it does
+ * not pass. A negative span is a crossing, the thumb on the far side of finger hi, which the table's
+ * Min columns allow only for the thumb's pairs and only as far as they say (for 1–5 no crossing is
+ * comfortable at all).
+ */
+function spanIssue(row: SpanRow, s: number, i: number, where: string, lo: Finger, hi: Finger, handSize: HandSize, report: (index: number, rule: CheckRule, message: string) => void): void {
   const hand = HAND_SIZE_WORDS[handSize]
-  const wide = Math.abs(s)
-  const crossing = s < 0
-  const span = crossing ? `a thumb passing of ${semitones(wide)}` : `a span of ${semitones(wide)}`
-  if (s > row[MAX_PRAC] || s < row[MIN_PRAC]) {
-    const limit = Math.floor(Math.abs(crossing ? row[MIN_PRAC] : row[MAX_PRAC]))
-    report(i, 'beyondReach', `${what} ask for ${span}, beyond the ${limit} ${hand} can reach at all; the hand must leave the keys.`)
+  const pair = `${where}: ${FINGER_WORDS[lo]} and ${FINGER_WORDS[hi]}`
+  if (s < 0) {
+    const crossed = `${pair} cross, the thumb ${semitones(-s)} beyond ${FINGER_WORDS[hi]}`
+    // The widest whole crossing within each limit; 0 where the limit allows none.
+    const practical = Math.max(0, Math.floor(-row[MIN_PRAC]))
+    const comfortable = Math.max(0, Math.floor(-row[MIN_COMF]))
+    if (-s > practical) {
+      report(i, 'beyondReach', practical === 0
+        ? `${crossed}: ${hand} cannot cross these two at all; the hand must leave the keys.`
+        : `${crossed}: more than the ${practical} ${hand} can cross them at all; the hand must leave the keys.`)
+    }
+    else if (-s > comfortable) {
+      report(i, 'stretch', comfortable === 0
+        ? `${crossed}: ${hand} reaches that, but no crossing of these two is comfortable.`
+        : `${crossed}: more than the ${comfortable} ${hand} crosses them comfortably.`)
+    }
   }
-  else if (s > row[MAX_COMF] || (crossing && s < row[MIN_COMF])) {
-    const limit = Math.floor(Math.abs(crossing ? row[MIN_COMF] : row[MAX_COMF]))
-    report(i, 'stretch', `${what} ask for ${span}, beyond the comfortable ${limit} for ${hand}.`)
+  else if (s > row[MAX_PRAC]) {
+    report(i, 'beyondReach', `${pair} ask for a span of ${semitones(s)}, more than the ${Math.floor(row[MAX_PRAC])} ${hand} can span at all; the hand must leave the keys.`)
+  }
+  else if (s < row[MIN_PRAC]) {
+    report(i, 'beyondReach', `${pair} ask for keys ${semitones(s)} apart, closer than they can play: they need at least ${semitones(Math.ceil(row[MIN_PRAC]))} between them.`)
+  }
+  else if (s > row[MAX_COMF]) {
+    report(i, 'stretch', `${pair} ask for a span of ${semitones(s)}, more than the ${Math.floor(row[MAX_COMF])} ${hand} spans comfortably.`)
   }
 }
 
@@ -178,7 +202,7 @@ function chordIssues(table: SpanRow[][], notes: LineItem[], i: number, chord: To
       return
     }
     const { row, s } = pairSpan(table, a.f, a.k, b.f, b.k)
-    spanIssue(row, s, i, `${capital(noteWord(notes, i))}: ${FINGER_WORDS[a.f]} and ${FINGER_WORDS[b.f]}`, handSize, report)
+    spanIssue(row, s, i, capital(noteWord(notes, i)), a.f, b.f, handSize, report)
   }
 }
 

@@ -82,6 +82,64 @@ describe('checkFingering stays silent where nothing is awkward', () => {
     expect(checkFingering({ hand: 'right', notes: [60, 72], fingers: [1, 5], handSize: 'small' }).map(i => i.rule)).toContain('stretch')
   })
 
+  describe('says a span\'s figures without contradicting itself', () => {
+    const message = (input: Parameters<typeof checkFingering>[0], rule: CheckRule): string | undefined =>
+      checkFingering(input).find(i => i.rule === rule)?.message
+
+    it('names a crossing of 5 and the thumb as one no hand makes comfortably', () => {
+      // Parncutt et al. 1997 Table 1 (from memory, spans.ts): 1–5 MinPrac −1, MinComf +1, so the thumb
+      // one semitone beyond 5 is reachable but never comfortable; a small hand reaches 0.8 of it (spans.ts).
+      expect(message({ hand: 'right', notes: [71, 72], fingers: [5, 1] }, 'stretch')).toBe(
+        'Note 1 (B4) to note 2 (C5): the thumb and finger 5 cross, the thumb 1 semitone beyond finger 5: a medium hand reaches that, but no crossing of these two is comfortable.')
+      expect(message({ hand: 'right', notes: [71, 72], fingers: [5, 1], handSize: 'small' }, 'beyondReach')).toBe(
+        'Note 1 (B4) to note 2 (C5): the thumb and finger 5 cross, the thumb 1 semitone beyond finger 5: a small hand cannot cross these two at all; the hand must leave the keys.')
+    })
+
+    it('gives the widest whole span within the limit, not a rounded one', () => {
+      // Table 1: 1–5 MaxComf 13, times 1.15 for a large hand (spans.ts) = 14.95; 15 semitones pass it, 14 do not.
+      expect(message({ hand: 'right', notes: [60, 75], fingers: [1, 5], handSize: 'large' }, 'stretch')).toBe(
+        'Note 1 (C4) to note 2 (D#5): the thumb and finger 5 ask for a span of 15 semitones, more than the 14 a large hand spans comfortably.')
+      // Table 1: 1–2 MinPrac −5 (the thumb passing under 2 by a fourth at most); the left hand mirrors it.
+      expect(message({ hand: 'left', notes: [64, 56], fingers: [2, 1] }, 'beyondReach')).toBe(
+        'Note 1 (E4) to note 2 (G#3): the thumb and finger 2 cross, the thumb 8 semitones beyond finger 2: more than the 5 a medium hand can cross them at all; the hand must leave the keys.')
+    })
+
+    it('calls fingers too close what they are, not a reach too far', () => {
+      // Table 1: 2–5 MinPrac 2, so 2 and 5 on neighbouring keys are closer than they can play.
+      expect(message({ hand: 'right', notes: [[60, 61]], fingers: [[2, 5]] }, 'beyondReach')).toBe(
+        'Chord 1 (C4+C#4): finger 2 and finger 5 ask for keys 1 semitone apart, closer than they can play: they need at least 2 semitones between them.')
+    })
+
+    it('never sets a span against a limit it does not pass, for any pair, span and hand size', () => {
+      // Whatever Table 1 says, a message's own two figures must agree with its verdict.
+      const figures = /(\d+) semitones? (?:beyond|apart)|span of (\d+) semitones?/
+      let checked = 0
+      for (const handSize of ['small', 'medium', 'large'] as const) {
+        for (let lo = 1; lo <= 4; lo++) {
+          for (let hi = lo + 1; hi <= 5; hi++) {
+            for (let span = -14; span <= 24; span++) {
+              if (span === 0) continue
+              for (const issue of checkFingering({ hand: 'right', notes: [60, 60 + span], fingers: [lo as Finger, hi as Finger], handSize })) {
+                if (issue.rule !== 'stretch' && issue.rule !== 'beyondReach') continue
+                const said = Number(figures.exec(issue.message)?.slice(1).find(x => x !== undefined))
+                expect(said, issue.message).toBe(Math.abs(span))
+                const limit = /the (\d+) |at least (\d+) /.exec(issue.message)?.slice(1).find(x => x !== undefined)
+                if (limit === undefined) {
+                  expect(issue.message).toMatch(/cannot cross these two at all|no crossing of these two is comfortable/)
+                  continue
+                }
+                if (issue.message.includes('at least')) expect(Math.abs(span), issue.message).toBeLessThan(Number(limit))
+                else expect(Math.abs(span), issue.message).toBeGreaterThan(Number(limit))
+                checked++
+              }
+            }
+          }
+        }
+      }
+      expect(checked).toBeGreaterThan(100)
+    })
+  })
+
   it('says where a change could be avoided and how', () => {
     const [issue] = checkFingering({ hand: 'right', notes: [60, 62, 64, 65, 67], fingers: [1, 2, 3, 1, 2] })
     expect(issue!.message).toContain('4 5')

@@ -21,6 +21,7 @@ const RECORDED: { version: string, digest: string }[] = [
   { version: '1.9.0', digest: '8c6fe419a478f021' },
   { version: '1.10.0', digest: '63e9ffe254575302' },
   { version: '1.11.0', digest: '09914aecfc3e2950' },
+  { version: '1.11.1', digest: '4c2943585e2c0596' },
 ]
 
 /** A reproducible stream of numbers in [0, 1) (a linear congruential generator). */
