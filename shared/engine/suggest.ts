@@ -6,7 +6,7 @@ import { isBlackKey, keyCenterMm, WHITE_KEY_MM } from './keys'
 import { chosenTouches, lineLattice, withOptionPenalty } from './lattice'
 import { arpeggioPhases, FORBIDDEN, scaleFingering, scalePhases, scaleRuns, type ScaleFingering, type ScaleRun } from './scale'
 import { itemKeys, itemPitchesLowToHigh, toRightHandSpace, type Touch } from './touches'
-import type { Emphasis, Finger, Hand, LineItem, SuggestInput, SuggestResult } from './types'
+import type { Emphasis, Finger, Hand, HandSize, LineItem, SuggestInput, SuggestResult } from './types'
 
 /**
  * Points for each note of a sequence that leaves the fingering its repetitions share. As much as a
@@ -162,6 +162,68 @@ function melodicFingering(line: number[], runs: ScaleRun[], perDegree: ScaleFing
   return (i, f) => runs.some((run, r) => i >= run.from && i <= run.to && fingerings[r]!.allowed(i - run.from, f))
 }
 
+/**
+ * A trill keeps one pair of neighbouring fingers throughout (common practice: no change of finger
+ * inside it, and 1–2 or 2–3, not 1–3): each of its notes takes the finger its key took two notes before,
+ * one away from the finger of the note between. The per-note sets of alternationFingers alone would let
+ * the search trade 1–2 for 2–3 halfway through.
+ */
+function withOnePair(lattice: Lattice, trill: (readonly Finger[] | null)[]): Lattice {
+  const table = new Float64Array(125)
+  return {
+    ...lattice,
+    triple: (i) => {
+      const base = lattice.triple(i)
+      if (!trill[i] || !trill[i - 1] || !trill[i - 2]) return base
+      for (let a = 0; a < 5; a++) {
+        for (let b = 0; b < 5; b++) {
+          for (let c = 0; c < 5; c++) {
+            const t = (a * 5 + b) * 5 + c
+            table[t] = (base?.[t] ?? 0) + (a === c && Math.abs(b - c) === 1 ? 0 : FORBIDDEN)
+          }
+        }
+      }
+      return table
+    },
+  }
+}
+
+/**
+ * The fingers a scale or arpeggio run allows each of its notes (one finger per pitch class, the pattern
+ * chosen by search over the whole run, scale.ts), or null where the line is no such run.
+ */
+function runFingering(line: number[], hand: Hand, handSize: HandSize): ((i: number, f: Finger) => boolean) | null {
+  const scale = scalePhases(line)
+  const phases = scale ?? arpeggioPhases(line)
+  if (!phases) return null
+  const model = costModel(handSize)
+  const fingering = scaleFingering(line, phases, model, scale ? 'scale' : 'arpeggio', hand)
+  const runs = scale ? scaleRuns(line) : null
+  return runs ? melodicFingering(line, runs, fingering, model) : fingering.allowed
+}
+
+/**
+ * Beside trills, each stretch of the line between them keeps the fingering it would have alone: a scale
+ * or arpeggio run keeps its pattern up to the note before the trill (common practice: a run into a
+ * trill is fingered as the scale, and only the step onto the trill's first note changes the hand's
+ * place, where the trill's pair needs it), so the junction is the one move the search chooses freely.
+ * Notes outside such a run are free.
+ */
+function trilledRuns(line: number[], trill: (readonly Finger[] | null)[], hand: Hand, handSize: HandSize): (i: number, f: Finger) => boolean {
+  const allowed: (((f: Finger) => boolean) | null)[] = line.map(() => null)
+  let from = 0
+  for (let i = 0; i <= line.length; i++) {
+    if (i < line.length && !trill[i]) continue
+    if (i > from) {
+      const run = runFingering(line.slice(from, i), hand, handSize)
+      const start = from
+      if (run) for (let j = from; j < i; j++) allowed[j] = f => run(j - start, f)
+    }
+    from = i + 1
+  }
+  return (i, f) => allowed[i]?.(f) ?? true
+}
+
 export function suggestFingering(input: SuggestInput): SuggestResult {
   const { hand, notes, handSize = 'medium', emphasis } = input
   const keys = notes.map(item => itemKeys(hand, item))
@@ -175,18 +237,12 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
   const trill = line ? alternationFingers(line) : null
   const hasTrill = trill?.some(a => a !== null) ?? false
   // A trill is no scale or arpeggio run: its notes keep their two fingers whatever the run's pattern.
-  const scale = line && !hasTrill ? scalePhases(line) : null
-  const arpeggio = line && !scale && !hasTrill ? arpeggioPhases(line) : null
-  const phases = scale ?? arpeggio
-  const broken = line && !phases && !hasTrill ? brokenChordFingers(line, costModel(handSize)) : null
-  const period = line && !phases && !hasTrill && !broken ? sequencePeriod(line) : 0
+  const run = line && !hasTrill ? runFingering(line, hand, handSize) : null
+  const broken = line && !run && !hasTrill ? brokenChordFingers(line, costModel(handSize)) : null
+  const period = line && !run && !hasTrill && !broken ? sequencePeriod(line) : 0
   let path: number[]
-  if (line && phases) {
-    // A scale or an arpeggio: one finger per pitch class, the pattern chosen by search over the whole run (scale.ts).
-    const fingering = scaleFingering(line, phases, costModel(handSize), scale ? 'scale' : 'arpeggio', hand)
-    const runs = scale ? scaleRuns(line) : null
-    const allowed = runs ? melodicFingering(line, runs, fingering, costModel(handSize)) : fingering.allowed
-    path = cheapestPath(withPenalty(lattice, (i, f) => (allowed(i, f) ? 0 : FORBIDDEN))).path
+  if (run) {
+    path = cheapestPath(withPenalty(lattice, (i, f) => (run(i, f) ? 0 : FORBIDDEN))).path
   }
   else if (broken) {
     // Unless the block chord's fingers cannot join the notes (a small hand's reach): then the free optimum.
@@ -195,7 +251,9 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
     path = asChord.cost >= UNPLAYABLE && free.cost < UNPLAYABLE ? free.path : asChord.path
   }
   else if (hasTrill) {
-    path = cheapestPath(withPenalty(lattice, (i, f) => (trill![i] && !trill![i]!.includes(f) ? FORBIDDEN : 0))).path
+    const runs = trilledRuns(line!, trill!, hand, handSize)
+    const allowed = withPenalty(lattice, (i, f) => ((trill![i] ? trill![i]!.includes(f) : runs(i, f)) ? 0 : FORBIDDEN))
+    path = cheapestPath(withOnePair(allowed, trill!)).path
   }
   else if (period > 0) {
     // A drill sequence is taught with one fingering for every group, so the free optimum's most common

@@ -1,7 +1,9 @@
 // Fingering conventions beyond scales: arpeggios, broken chords, seventh chords, trills and sequences.
 import { describe, expect, it } from 'vitest'
+import { isBlackKey } from '../../../shared/engine/keys'
 import { sequencePeriod, suggestFingering } from '../../../shared/engine/suggest'
 import type { Finger, Hand } from '../../../shared/engine/types'
+import { HARMONIC_MINOR_SCALE_FINGERINGS, MAJOR_SCALE_FINGERINGS, printedFingers, scaleNotes } from './fixtures/scales'
 
 const f = (s: string): Finger[] => s.split('').map(Number) as Finger[]
 
@@ -118,6 +120,54 @@ describe('trills stay in one position on two neighbouring strong fingers', () =>
     notes.slice(from).forEach((m, i) => byKey.set(m, new Set([...(byKey.get(m) ?? []), trill[i]!])))
     for (const used of byKey.values()) expect(used.size).toBe(1)
     expect(positions.filter(p => p > from)).toEqual([])
+  })
+})
+
+// A run into a trill (issue 11, point 3), checked on every major and harmonic minor of the scale table
+// (fixtures/scales.ts: common practice, from memory), both hands, up and down, the trill on the two
+// scale notes after the run's last, after 9 to 13 notes of the run. Common practice: the run keeps the
+// scale's fingering up to the trill (the printed one where the keynote is white; elsewhere the one the
+// run has alone, less its last note, which a run alone may end on an edge finger), the trill takes 1–2
+// or 2–3, one finger per key, and the hand moves at most once, onto the trill's first note.
+const RUN_INTO_TRILL = [...MAJOR_SCALE_FINGERINGS, ...HARMONIC_MINOR_SCALE_FINGERINGS].flatMap(scale =>
+  (['right', 'left'] as const).flatMap(hand => (['up', 'down'] as const).map(way => ({ scale, hand, way }))))
+
+describe('a run into a trill keeps the scale\'s fingering; the trill takes a strong pair', () => {
+  it.each(RUN_INTO_TRILL.map(c => [`${c.scale.key} ${c.hand} hand ${c.way}`, c] as const))('%s', (_, { scale, hand, way }) => {
+    const notes = scaleNotes(scale, hand === 'left' ? scale.tonic - 12 : scale.tonic, 2)
+    const printed = printedFingers(scale, hand, 2)
+    const line = way === 'up' ? notes.slice(0, 15) : notes.slice(14)
+    const lineFingers = way === 'up' ? printed.slice(0, 15) : printed.slice(14)
+    for (let length = 9; length <= 13; length++) {
+      const run = line.slice(0, length)
+      const [a, b] = [line[length]!, line[length + 1]!]
+      const { fingers, positions } = suggestFingering({ hand, notes: [...run, a, b, a, b, a, b, a] })
+      const where = `${length} notes then ${a}–${b}: ${fingers.join(' ')}`
+      if (!isBlackKey(scale.tonic)) {
+        expect(fingers.slice(0, length), where).toEqual(lineFingers.slice(0, length))
+      }
+      else {
+        expect(fingers.slice(0, length - 1), where).toEqual(suggestFingering({ hand, notes: run }).fingers.slice(0, length - 1))
+      }
+      const trill = fingers.slice(length) as Finger[]
+      expect([[1, 2], [2, 3]], where).toContainEqual([...new Set(trill)].sort())
+      trill.forEach((f, i) => i >= 2 && expect(f, where).toBe(trill[i - 2]))
+      expect(positions.filter(p => p > length), where).toEqual([])
+    }
+  })
+
+  it('fingers the issue\'s C major run to E5 and its E–F trill as a teacher does', () => {
+    // Common practice: thumb on C and F through the run, the thumb passing under 2 onto the trill's E,
+    // the trill on 1–2 (the issue's line; before 1.12.0 the run put the thumb on B4).
+    const notes = [60, 62, 64, 65, 67, 69, 71, 72, 74, 76, 77, 76, 77, 76, 77, 76, 77]
+    expect(suggestFingering({ hand: 'right', notes }).fingers).toEqual(f('12312341212121212'))
+    // Two octaves up, then the trill D6–C6: the scale's thumb on C6 begins a 1–2 trill, no thumb on B5.
+    const twoOctaves = [60, 62, 64, 65, 67, 69, 71, 72, 74, 76, 77, 79, 81, 83, 84, 86, 84, 86, 84, 86, 84, 86]
+    expect(suggestFingering({ hand: 'right', notes: twoOctaves }).fingers).toEqual(f('1231234123123412121212'))
+    // A trill not at the end: C major up to C5, a D–E trill, then the scale down from C5 as printed
+    // (1 4 3 2 1 3 2 1, common practice), the trill on 2–3 from the run's C on the thumb.
+    const upTrillDown = [60, 62, 64, 65, 67, 69, 71, 72, 74, 76, 74, 76, 74, 76, 74, 72, 71, 69, 67, 65, 64, 62, 60]
+    expect(suggestFingering({ hand: 'right', notes: upTrillDown }).fingers).toEqual(f('12312341' + '2323232' + '14321321'))
   })
 })
 

@@ -22,6 +22,7 @@ const RECORDED: { version: string, digest: string }[] = [
   { version: '1.10.0', digest: '63e9ffe254575302' },
   { version: '1.11.0', digest: '09914aecfc3e2950' },
   { version: '1.11.1', digest: '4c2943585e2c0596' },
+  { version: '1.12.0', digest: 'de5804e6544f398c' },
 ]
 
 /** A reproducible stream of numbers in [0, 1) (a linear congruential generator). */
@@ -81,6 +82,9 @@ function results(): unknown[] {
     suggestFingering({ hand: 'right', notes: [63, 66, 70, 75, 78, 82, 87, 82, 78, 75, 70, 66, 63] }),
     // From 1.11.0 on: a stretch within the practical span stays in position (A minor's 2–3 major third).
     positionStarts('right', [57, 60, 64, 69, 72, 76, 81], [1, 2, 3, 1, 2, 3, 5]),
+    // From 1.12.0 on: the left hand's G major down into an F♯–G trill, and two octaves of C major up into a D–C trill.
+    suggestFingering({ hand: 'left', notes: [55, 54, 52, 50, 48, 47, 45, 43, 42, 43, 42, 43, 42, 43] }),
+    suggestFingering({ hand: 'right', notes: [...scale, 86, 84, 86, 84, 86, 84, 86] }),
   ]
 }
 
