@@ -250,6 +250,30 @@ function linearPosteriors(lattice: Lattice, temperature: number, layout: StateLa
   return backwardMarginals(weights, forward(weights, layout), layout)
 }
 
+/**
+ * Work arrays of a state per note (each state's own weight and alpha in the linear passes, the
+ * inference's pair costs), kept from one call to the next: at 25 doubles a note they are 20 MB each
+ * for a 100,000-note attempt, and fresh ones every call cost the garbage collector more than the
+ * passes that fill them. Each slot has one user at a time, and every entry a user reads it has
+ * written first in the same call, so what an earlier call left there never shows. They grow to the
+ * longest line seen and stay (our choice: 60 MB after a 100,000-note attempt).
+ */
+const workArrays: Float64Array[] = []
+
+/** Slots of workArray, one per user. */
+export const WORK_OWN = 0
+export const WORK_ALPHA = 1
+export const WORK_PAIRS = 2
+
+export function workArray(slot: number, length: number): Float64Array {
+  let buffer = workArrays[slot]
+  if (!buffer || buffer.length < length) {
+    buffer = new Float64Array(length)
+    workArrays[slot] = buffer
+  }
+  return buffer.length === length ? buffer : buffer.subarray(0, length)
+}
+
 /** Each state's own weight and each item's triple weights, for the linear passes. */
 interface LinearTables {
   /** The first table's weights at item 0, the pair table's after it, in the states' layout. */
@@ -260,7 +284,7 @@ interface LinearTables {
 function linearTables(lattice: Lattice, temperature: number, layout: StateLayout): LinearTables | null {
   const { sizes, offsets } = layout
   const n = sizes.length
-  const own = new Float64Array(offsets[n]!)
+  const own = workArray(WORK_OWN, offsets[n]!)
   if (!linearWeights(lattice.first(), sizes[0]!, temperature, own, 0)) return null
   const triples: (Float64Array | null)[] = new Array(n).fill(null)
   for (let i = 1; i < n; i++) {
@@ -278,7 +302,7 @@ function linearTables(lattice: Lattice, temperature: number, layout: StateLayout
 function forward({ own, triples }: LinearTables, layout: StateLayout): Float64Array {
   const { sizes, offsets } = layout
   const n = sizes.length
-  const alpha = new Float64Array(offsets[n]!)
+  const alpha = workArray(WORK_ALPHA, offsets[n]!)
   alpha.set(own.subarray(0, sizes[0]!))
   for (let i = 1; i < n; i++) {
     const sb = sizes[i - 1]!

@@ -36,7 +36,7 @@
 // Calibration: our own, against the simulated player in tests/unit/engine/support (player.ts
 // documents that model; `npm run bench` prints the recovery figures). The constants below are our
 // estimates, marked so; none is a published figure.
-import { cheapestPath, optionPosteriors, type Lattice } from './chain'
+import { cheapestPath, optionPosteriors, workArray, WORK_PAIRS, type Lattice } from './chain'
 import { costModel, type CostModel } from './costs'
 import { PERFORMANCE_WEIGHTS, type RuleWeights } from './ergonomics'
 import { fitsComfortably, touchPositionStarts } from './positions'
@@ -468,7 +468,8 @@ function withEvidence(base: LineLattice, model: CostModel, items: Items, noteKey
   const single = (i: number): boolean => base.keys[i]!.length === 1
   const offsets = new Int32Array(items.count + 1)
   for (let i = 1; i < items.count; i++) offsets[i + 1] = offsets[i]! + base.sizes[i - 1]! * base.sizes[i]!
-  const buffer = new Float64Array(offsets[items.count]!)
+  // Reused from the last inference: pairCosts writes every entry before anything reads it.
+  const buffer = workArray(WORK_PAIRS, offsets[items.count]!)
   // Per pair entry, whether the hand more probably lifted than stayed on the keys.
   const liftFlags = new Uint8Array(buffer.length)
   const triples: (ArrayLike<number> | null)[] = new Array(items.count).fill(null)

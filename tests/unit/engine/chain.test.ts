@@ -37,4 +37,14 @@ describe('optionPosteriors', () => {
     const posteriors = optionPosteriors(l, 2)
     expected.forEach((marginal, i) => marginal.forEach((p, o) => expect(posteriors.values[posteriors.start[i]! + o]).toBeCloseTo(p, 9)))
   })
+
+  it('gives the same posteriors whatever a longer line left in the reused work arrays', () => {
+    // The sum over every path (bruteForce) is the reference; a longer, different line run first leaves
+    // its states in the work arrays the shorter one then reuses.
+    const short = lattice(6, 10)
+    const expected = bruteForce(short, 2)
+    optionPosteriors(lattice(400, 30), 0.7)
+    const posteriors = optionPosteriors(short, 2)
+    expected.forEach((marginal, i) => marginal.forEach((p, o) => expect(posteriors.values[posteriors.start[i]! + o]).toBeCloseTo(p, 9)))
+  })
 })
