@@ -129,6 +129,9 @@ export function createAttemptOutbox(): AttemptOutbox {
     entries.value = [...stored, ...[...unstored.values()].filter(e => !ids.has(e.attempt.id))]
   }
 
+  // This tab's own writes change the list in memory: reading every stored entry back (each checked by its schema)
+  // on every save cost milliseconds a loop's next pass was being played in. Other tabs' writes come through the
+  // storage event, which reloads.
   function put(entry: OutboxEntry): void {
     try {
       localStorage.setItem(KEY_PREFIX + entry.attempt.id, JSON.stringify(entry))
@@ -138,13 +141,13 @@ export function createAttemptOutbox(): AttemptOutbox {
       unstored.set(entry.attempt.id, entry)
       lastError.value = 'This browser would not keep a copy of the attempt; keep this page open until it is sent.'
     }
-    reload()
+    entries.value = [...entries.value.filter(e => e.attempt.id !== entry.attempt.id), entry].sort((a, b) => a.savedAt.localeCompare(b.savedAt))
   }
 
   function remove(attemptId: string): void {
     localStorage.removeItem(KEY_PREFIX + attemptId)
     unstored.delete(attemptId)
-    reload()
+    entries.value = entries.value.filter(e => e.attempt.id !== attemptId)
   }
 
   function scheduleRetry(): void {
@@ -198,6 +201,9 @@ export function createAttemptOutbox(): AttemptOutbox {
     if (entry.userId === null) {
       return { status: 'queued', message: 'You are signed out; the attempt is kept on this device until you sign in and say it is yours.' }
     }
+    // Kept on this device above, before anything else; the request goes in a task of its own, so a loop's next
+    // pass and the grade on screen are not held back by it.
+    await nextTask()
     const outcome = await send(entry)
     if (outcome.status === 'queued') scheduleRetry()
     return outcome

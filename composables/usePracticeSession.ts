@@ -13,6 +13,7 @@ import { barCount, beatsPerBar as beatsPerBarOf, drillPart } from '#shared/utils
 import { DEFAULT_LADDER, ladderNextBpm, ladderStartBpm } from '#shared/utils/tempo'
 import type { TempoLadder } from '#shared/utils/tempo'
 import type { InjectionKey } from 'vue'
+import type { SaveOutcome } from '~/composables/useAttemptOutbox'
 
 export interface PracticeDrill extends DrillMusic {
   id: number
@@ -82,6 +83,11 @@ export function stepsOf(notes: readonly DrillNote[]): number[][] {
   const byBeat = new Map<number, number[]>()
   notes.forEach((n, i) => byBeat.set(n.beat, [...(byBeat.get(n.beat) ?? []), i]))
   return [...byBeat.entries()].sort((a, b) => a[0] - b[0]).map(([, ix]) => ix)
+}
+
+/** Whether two grades say the same (the browser's and the server's, from the same events and engine). */
+function sameGrade(a: GradeResult, b: GradeResult): boolean {
+  return JSON.stringify(a) === JSON.stringify(b)
 }
 
 /** How far ahead the app's own notes are put on the audio clock, and how often it looks (as the metronome). */
@@ -247,7 +253,7 @@ export function usePracticeSession(options: PracticeSessionOptions) {
   function onNote(e: LiveNoteEvent): void {
     playKey(piano, pressed, e)
     const phase = state.value.phase
-    if (phase === 'counting' || phase === 'playing') {
+    if (!closing && (phase === 'counting' || phase === 'playing')) {
       store.record(e)
       if (e.on && phase === 'playing') advance(e.note)
     }
@@ -350,9 +356,12 @@ export function usePracticeSession(options: PracticeSessionOptions) {
     }, LISTEN_LEAD_MS + endMs + 200)
   }
 
+  // Set between a pass's end and its grade: the attempt is closed, and keys played meanwhile only sound.
+  let closing = false
+
   async function finish(): Promise<void> {
     clearFinish()
-    if (!active.value) return
+    if (!active.value || closing) return
     metronome.stop()
     stopAppNotes()
     const current = played.value
@@ -369,11 +378,21 @@ export function usePracticeSession(options: PracticeSessionOptions) {
       error.value = e instanceof Error ? e.message : 'The attempt could not be kept'
       return
     }
+    // Kept on this device before anything else (the request itself goes a task later). From here each step is a
+    // task of its own, so a key played meanwhile (in a loop, the next pass) waits for one step at most, never for
+    // the grading, the report and the request together.
+    const saving = outbox.save(attempt).catch((e: unknown): SaveOutcome => ({ status: 'rejected', message: e instanceof Error ? e.message : 'The attempt could not be saved' }))
+    closing = true
+    await nextTask()
+    // Stopped meanwhile: the pass had already ended, so it is saved, but nothing more is shown.
+    if (!active.value) {
+      closing = false
+      await saving
+      return
+    }
     // The grade shows at once from the engine here; the server grades the same events again and stores its own.
     const local = gradeAttempt(current.music, attempt.events, { targetBpm: ceilingBpm.value ?? undefined, handSize: store.handSize })
     const mine: PassResult = { pass, result: local, save: { status: 'saving' }, tempoBpm: attempt.tempoBpm, notes: current.music.notes }
-    last.value = mine
-    state.value = { phase: 'done' }
     const score = Math.round(local.score)
     let said = loop.on ? `Pass ${pass}: score ${score}.` : `Finished. Score ${score} out of 100.`
     if (ladder.on && ceilingBpm.value) {
@@ -382,21 +401,32 @@ export function usePracticeSession(options: PracticeSessionOptions) {
       store.tempoBpm = next
     }
     announcement.value = said
-    const saving = outbox.save(attempt).then((outcome) => {
-      const save: SaveState = outcome.status === 'sent' ? { status: 'saved' } : { status: outcome.status === 'queued' ? 'waiting' : 'rejected', message: outcome.message }
-      if (last.value === mine) last.value = { ...mine, save, result: outcome.status === 'sent' ? outcome.attempt.result : local }
-      if (outcome.status === 'sent') options.onSaved?.()
-      else if (!loop.on) announcement.value = `${said} ${outcome.message}`
-    })
-    // Each pass of a loop is its own attempt: the next one starts while this one is saved.
+    // Each pass of a loop is its own attempt: the next one starts a task later, and this one's report a task after.
     if (loop.on) {
-      // The pass's result is said before the next pass's count-in, in one announcement.
-      void start({ countIn: loop.countIn })
-      announcement.value = `${said} ${announcement.value}`
+      await nextTask()
+      closing = false
+      // Not stopped meanwhile: straight from this pass into the next, so "done" is never drawn in between.
+      if (active.value) {
+        state.value = { phase: 'done' }
+        void start({ countIn: loop.countIn })
+        // The pass's result is said before the next pass's count-in, in one announcement.
+        announcement.value = `${said} ${announcement.value}`
+      }
+      await nextTask()
+      last.value = mine
     }
     else {
-      await saving
+      closing = false
+      last.value = mine
+      state.value = { phase: 'done' }
     }
+    const outcome = await saving
+    const save: SaveState = outcome.status === 'sent' ? { status: 'saved' } : { status: outcome.status === 'queued' ? 'waiting' : 'rejected', message: outcome.message }
+    // The server's grade is nearly always the one on screen already: then only the saving's state changes there.
+    const result = outcome.status === 'sent' && !sameGrade(outcome.attempt.result, local) ? outcome.attempt.result : local
+    if (last.value === mine) last.value = { ...mine, save, result }
+    if (outcome.status === 'sent') options.onSaved?.()
+    else if (!loop.on) announcement.value = `${said} ${outcome.message}`
   }
 
   /** Stops without keeping the attempt (the student wants to start again). */
@@ -407,7 +437,7 @@ export function usePracticeSession(options: PracticeSessionOptions) {
     stopAppNotes()
     store.cancel()
     state.value = { phase: 'ready' }
-    announcement.value = listening ? 'Stopped.' : 'Stopped; this pass was not kept.'
+    announcement.value = listening ? 'Stopped.' : closing ? 'Stopped; the pass just played is saved.' : 'Stopped; this pass was not kept.'
   }
 
   onBeforeUnmount(() => {
