@@ -202,26 +202,69 @@ function runFingering(line: number[], hand: Hand, handSize: HandSize): ((i: numb
   return runs ? melodicFingering(line, runs, fingering, model) : fingering.allowed
 }
 
+/** The widest step of a scale run (the harmonic minor's augmented second, scale.ts). */
+const SCALE_STEP = 3
+
 /**
- * Beside trills, each stretch of the line between them keeps the fingering it would have alone: a scale
- * or arpeggio run keeps its pattern up to the note before the trill (common practice: a run into a
- * trill is fingered as the scale, and only the step onto the trill's first note changes the hand's
- * place, where the trill's pair needs it), so the junction is the one move the search chooses freely.
- * Notes outside such a run are free.
+ * Runs inside a line that is no run as a whole: each stretch between the notes `apart` sets aside (a
+ * trill's) keeps the fingering it would have alone where it is a scale or arpeggio run, and where it
+ * is not, each piece of it between leaps wider than a scale step does where that piece is a scale.
+ * Common practice: a run into a trill, a leap or any other figure is fingered as the scale, and only
+ * the move from the run's last note onto what follows changes the hand's place, so the junction is the
+ * one move the search chooses freely. Notes outside such a run are free. Null where no run is found.
  */
-function trilledRuns(line: number[], trill: (readonly Finger[] | null)[], hand: Hand, handSize: HandSize): (i: number, f: Finger) => boolean {
-  const allowed: (((f: Finger) => boolean) | null)[] = line.map(() => null)
+function runsWithin(line: number[], apart: (i: number) => boolean, hand: Hand, handSize: HandSize): Uint8Array | null {
+  // Per note, the fingers allowed as bits (finger f at bit f − 1); every finger outside the runs.
+  const allowed = new Uint8Array(line.length).fill(ALL_FINGERS)
+  let found = false
+  const keep = (from: number, to: number): boolean => {
+    const run = to - from > 1 ? runFingering(line.slice(from, to), hand, handSize) : null
+    if (!run) return false
+    for (let j = from; j < to; j++) {
+      let bits = 0
+      for (let f = 1; f <= 5; f++) if (run(j - from, f as Finger)) bits |= 1 << (f - 1)
+      allowed[j] = bits
+    }
+    found = true
+    return true
+  }
+  const pieces = (from: number, to: number): void => {
+    let start = from
+    for (let i = from + 1; i <= to; i++) {
+      if (i < to && Math.abs(line[i]! - line[i - 1]!) <= SCALE_STEP) continue
+      keep(start, i)
+      start = i
+    }
+  }
   let from = 0
   for (let i = 0; i <= line.length; i++) {
-    if (i < line.length && !trill[i]) continue
-    if (i > from) {
-      const run = runFingering(line.slice(from, i), hand, handSize)
-      const start = from
-      if (run) for (let j = from; j < i; j++) allowed[j] = f => run(j - start, f)
-    }
+    if (i < line.length && !apart(i)) continue
+    if (i > from && !keep(from, i)) pieces(from, i)
     from = i + 1
   }
-  return (i, f) => allowed[i]?.(f) ?? true
+  return found ? allowed : null
+}
+
+const ALL_FINGERS = 0b11111
+
+/**
+ * A lattice of single notes with every finger outside `allowed` (bits, as runsWithin) forbidden. Only
+ * the notes with a finger forbidden get a table of their own, refilled at each call (Lattice), so a
+ * long line with a few runs in it costs no more to search than without them.
+ */
+function withAllowed(lattice: Lattice, allowed: Uint8Array): Lattice {
+  const table = new Float64Array(25)
+  const limit = (costs: ArrayLike<number>, i: number, into: Float64Array): ArrayLike<number> => {
+    const bits = allowed[i]!
+    if (bits === ALL_FINGERS) return costs
+    for (let j = 0; j < costs.length; j++) into[j] = costs[j]! + ((bits >> (j % 5)) & 1 ? 0 : FORBIDDEN)
+    return into.length === costs.length ? into : into.subarray(0, costs.length)
+  }
+  return {
+    ...lattice,
+    first: () => limit(lattice.first(), 0, new Float64Array(5)),
+    pair: i => limit(lattice.pair(i), i, table),
+  }
 }
 
 export function suggestFingering(input: SuggestInput): SuggestResult {
@@ -251,8 +294,8 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
     path = asChord.cost >= UNPLAYABLE && free.cost < UNPLAYABLE ? free.path : asChord.path
   }
   else if (hasTrill) {
-    const runs = trilledRuns(line!, trill!, hand, handSize)
-    const allowed = withPenalty(lattice, (i, f) => ((trill![i] ? trill![i]!.includes(f) : runs(i, f)) ? 0 : FORBIDDEN))
+    const runs = runsWithin(line!, i => trill![i] !== null, hand, handSize)
+    const allowed = withPenalty(lattice, (i, f) => ((trill![i] ? trill![i]!.includes(f) : ((runs?.[i] ?? ALL_FINGERS) >> (f - 1)) & 1) ? 0 : FORBIDDEN))
     path = cheapestPath(withOnePair(allowed, trill!)).path
   }
   else if (period > 0) {
@@ -264,7 +307,8 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
     path = cheapestPath(withPenalty(lattice, (i, f) => (f === pattern.get(groupPhases[i]!) ? 0 : CONSISTENCY_POINTS))).path
   }
   else {
-    path = cheapestPath(lattice).path
+    const runs = line ? runsWithin(line, () => false, hand, handSize) : null
+    path = cheapestPath(runs ? withAllowed(lattice, runs) : lattice).path
   }
   const fingers = fingersForItems(hand, notes, chosenTouches(plain, path))
   const positions = positionStarts(hand, notes, fingers, handSize)

@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest'
 import { isBlackKey } from '../../../shared/engine/keys'
 import { sequencePeriod, suggestFingering } from '../../../shared/engine/suggest'
 import type { Finger, Hand } from '../../../shared/engine/types'
-import { HARMONIC_MINOR_SCALE_FINGERINGS, MAJOR_SCALE_FINGERINGS, printedFingers, scaleNotes } from './fixtures/scales'
+import { HARMONIC_MINOR_SCALE_FINGERINGS, MAJOR_SCALE_FINGERINGS, printedFingers, scaleNotes, type ScaleFingering } from './fixtures/scales'
 
 const f = (s: string): Finger[] => s.split('').map(Number) as Finger[]
 
@@ -132,12 +132,18 @@ describe('trills stay in one position on two neighbouring strong fingers', () =>
 const RUN_INTO_TRILL = [...MAJOR_SCALE_FINGERINGS, ...HARMONIC_MINOR_SCALE_FINGERINGS].flatMap(scale =>
   (['right', 'left'] as const).flatMap(hand => (['up', 'down'] as const).map(way => ({ scale, hand, way }))))
 
+/** The scale's two octaves one way (15 notes, up from the bottom or down from the top) with their printed fingers. */
+function scaleWay(scale: ScaleFingering, hand: Hand, way: 'up' | 'down'): { line: number[], lineFingers: Finger[] } {
+  const notes = scaleNotes(scale, hand === 'left' ? scale.tonic - 12 : scale.tonic, 2)
+  const printed = printedFingers(scale, hand, 2)
+  return way === 'up'
+    ? { line: notes.slice(0, 15), lineFingers: printed.slice(0, 15) }
+    : { line: notes.slice(14), lineFingers: printed.slice(14) }
+}
+
 describe('a run into a trill keeps the scale\'s fingering; the trill takes a strong pair', () => {
   it.each(RUN_INTO_TRILL.map(c => [`${c.scale.key} ${c.hand} hand ${c.way}`, c] as const))('%s', (_, { scale, hand, way }) => {
-    const notes = scaleNotes(scale, hand === 'left' ? scale.tonic - 12 : scale.tonic, 2)
-    const printed = printedFingers(scale, hand, 2)
-    const line = way === 'up' ? notes.slice(0, 15) : notes.slice(14)
-    const lineFingers = way === 'up' ? printed.slice(0, 15) : printed.slice(14)
+    const { line, lineFingers } = scaleWay(scale, hand, way)
     for (let length = 9; length <= 13; length++) {
       const run = line.slice(0, length)
       const [a, b] = [line[length]!, line[length + 1]!]
@@ -153,6 +159,20 @@ describe('a run into a trill keeps the scale\'s fingering; the trill takes a str
       expect([[1, 2], [2, 3]], where).toContainEqual([...new Set(trill)].sort())
       trill.forEach((f, i) => i >= 2 && expect(f, where).toBe(trill[i - 2]))
       expect(positions.filter(p => p > length), where).toEqual([])
+    }
+  })
+
+  it.each(RUN_INTO_TRILL.map(c => [`${c.scale.key} ${c.hand} hand ${c.way}`, c] as const))('%s, then leaps back (no trill)', (_, { scale, hand, way }) => {
+    // The same runs of 9 to 14 notes followed by leaps of a fourth, a sixth and an octave back from
+    // their last note: any figure after a run leaves the run's own fingering alone (common practice).
+    const { line, lineFingers } = scaleWay(scale, hand, way)
+    for (let length = 9; length <= 14; length++) {
+      const run = line.slice(0, length)
+      const last = run[length - 1]!
+      const back = Math.sign(run[0]! - last)
+      const { fingers } = suggestFingering({ hand, notes: [...run, last + 5 * back, last + 9 * back, last + 12 * back] })
+      const expected = isBlackKey(scale.tonic) ? suggestFingering({ hand, notes: run }).fingers : lineFingers
+      expect(fingers.slice(0, length - 1), `${length} notes: ${fingers.join(' ')}`).toEqual(expected.slice(0, length - 1))
     }
   })
 

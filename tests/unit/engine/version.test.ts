@@ -23,6 +23,7 @@ const RECORDED: { version: string, digest: string }[] = [
   { version: '1.11.0', digest: '09914aecfc3e2950' },
   { version: '1.11.1', digest: '4c2943585e2c0596' },
   { version: '1.12.0', digest: 'de5804e6544f398c' },
+  { version: '1.13.0', digest: '0700c13594df8c68' },
 ]
 
 /** A reproducible stream of numbers in [0, 1) (a linear congruential generator). */
@@ -85,6 +86,8 @@ function results(): unknown[] {
     // From 1.12.0 on: the left hand's G major down into an F♯–G trill, and two octaves of C major up into a D–C trill.
     suggestFingering({ hand: 'left', notes: [55, 54, 52, 50, 48, 47, 45, 43, 42, 43, 42, 43, 42, 43] }),
     suggestFingering({ hand: 'right', notes: [...scale, 86, 84, 86, 84, 86, 84, 86] }),
+    // From 1.13.0 on: the left hand's C major down, then leaps back up (the run keeps its fingering).
+    suggestFingering({ hand: 'left', notes: [60, 59, 57, 55, 53, 52, 50, 48, 47, 45, 48, 52, 57] }),
   ]
 }
 
