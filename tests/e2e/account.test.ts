@@ -1,20 +1,18 @@
 // The settings page's account section in chromium, on a teacher of its own (the demo accounts keep
 // their password and address): a new name, a new password that the next sign-in needs, and a new
 // e-mail that waits for its link.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { openBrowser, signInAs } from '../support/browser'
-import type { BrowserSession } from '../support/browser'
+import { beforeAll, describe, expect, it } from 'vitest'
+import { browserForFile, signInAs } from '../support/browser'
 import { linkIn, waitForMail } from '../support/mail'
 import { uniqueEmail } from '../support/studio'
 
 const FIRST_PASSWORD = 'first-long-password-1'
 const SECOND_PASSWORD = 'second-long-password-2'
 
-let browser: BrowserSession
+const browser = browserForFile()
 let email: string
 
 beforeAll(async () => {
-  browser = await openBrowser()
   email = uniqueEmail('settings')
   const { page } = browser
   await page.goto('/signup')
@@ -23,9 +21,6 @@ beforeAll(async () => {
   await page.getByLabel('Password').fill(FIRST_PASSWORD)
   await page.getByRole('button', { name: 'Open my studio' }).click()
   await page.waitForURL(/\/teacher$/)
-})
-afterAll(async () => {
-  await browser?.close()
 })
 
 async function openSettings(): Promise<void> {

@@ -1,14 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { DrillNote } from '../../shared/types/drill'
-import { openStudentWithFakeMidi } from '../support/browser'
-import type { BrowserSession } from '../support/browser'
+import { browserForFile, openStudentWithFakeMidi } from '../support/browser'
 import { playDrill } from '../support/practice'
 import { closeTestDb, testDb } from '../support/server'
 import * as demo from '../../seeds/demo/studio'
 
 // The demo student is assigned every demo drill (two classes and one drill set of her own),
 // so each one can be practised end to end: opened, played on MIDI, graded and saved.
-let browser: BrowserSession
+const browser = browserForFile(openStudentWithFakeMidi)
 let drills: { id: number, title: string, notes: DrillNote[] }[]
 
 beforeAll(async () => {
@@ -16,12 +15,8 @@ beforeAll(async () => {
   const rows = await testDb()('drills as d').join('users as u', 'u.id', 'd.owner_id').where('u.email', demo.teacher.email)
     .whereIn('d.title', demo.drills.map(x => x.title)).whereNull('d.copied_from_id').orderBy('d.id').select('d.id', 'd.title', 'd.notes')
   drills = rows.map(r => ({ id: Number(r.id), title: r.title, notes: typeof r.notes === 'string' ? JSON.parse(r.notes) : r.notes }))
-  browser = await openStudentWithFakeMidi()
 })
-afterAll(async () => {
-  await browser?.close()
-  await closeTestDb()
-})
+afterAll(closeTestDb)
 
 describe('every demo drill', () => {
   it('has twelve drills to practise', () => {

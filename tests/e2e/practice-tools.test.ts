@@ -2,13 +2,12 @@ import { Note } from 'tonal'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import type { DrillNote } from '../../shared/types/drill'
-import { openStudentWithFakeMidi } from '../support/browser'
-import type { BrowserSession } from '../support/browser'
+import { browserForFile, openStudentWithFakeMidi } from '../support/browser'
 import { assignedDrill, openDrill, PLAY_WITH_LABEL, playDrill, startPlaying } from '../support/practice'
 import type { AssignedDrill } from '../support/practice'
 import { closeTestDb, testDb } from '../support/server'
 
-let browser: BrowserSession
+const browser = browserForFile(openStudentWithFakeMidi)
 let studentId: number
 let five: AssignedDrill
 let both: AssignedDrill
@@ -17,12 +16,8 @@ beforeAll(async () => {
   studentId = Number((await testDb()('users').where({ email: 'student@evenhand.test' }).first('id')).id)
   five = await assignedDrill('Five-finger pattern in C, right hand', 'Tuesday Starters')
   both = await assignedDrill('D major scale, hands together', 'Thursday Developing')
-  browser = await openStudentWithFakeMidi()
 })
-afterAll(async () => {
-  await browser?.close()
-  await closeTestDb()
-})
+afterAll(closeTestDb)
 
 function fakeMidiPlay(page: Page, notes: DrillNote[], beatMs: number): Promise<void> {
   const timed = notes.map(n => ({ note: Note.midi(n.pitch)!, velocity: 72, atMs: n.beat * beatMs, holdMs: n.length * beatMs * 0.92 }))

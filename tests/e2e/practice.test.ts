@@ -1,24 +1,19 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { openStudentWithFakeMidi } from '../support/browser'
-import type { BrowserSession } from '../support/browser'
+import { browserForFile, openStudentWithFakeMidi } from '../support/browser'
 import { FAKE_MIDI_INPUT_NAME } from '../support/fake-midi'
 import { assignedDrill, openDrill, PLAY_WITH_LABEL, playDrill } from '../support/practice'
 import type { AssignedDrill, PlayedOn } from '../support/practice'
 import { closeTestDb, testDb } from '../support/server'
 
-let browser: BrowserSession
+const browser = browserForFile(openStudentWithFakeMidi)
 let drill: AssignedDrill
 let studentId: number
 
 beforeAll(async () => {
   drill = await assignedDrill('Five-finger pattern in C, right hand', 'Tuesday Starters')
   studentId = Number((await testDb()('users').where({ email: 'student@evenhand.test' }).first('id')).id)
-  browser = await openStudentWithFakeMidi()
 })
-afterAll(async () => {
-  await browser?.close()
-  await closeTestDb()
-})
+afterAll(closeTestDb)
 
 function openDrillAndPlay(): Promise<void> {
   return playDrill(browser.page, drill, `?assignment=${drill.assignmentId}`)

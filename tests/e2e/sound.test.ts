@@ -4,8 +4,7 @@ import { Note } from 'tonal'
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest'
 import type { Page } from 'playwright-core'
 import { audioTapScript } from '../support/audio-tap'
-import { openStudentWithFakeMidi } from '../support/browser'
-import type { BrowserSession } from '../support/browser'
+import { browserForFile, openStudentWithFakeMidi } from '../support/browser'
 import { FAKE_MIDI_INPUT_NAME } from '../support/fake-midi'
 import { assignedDrill, openDrill } from '../support/practice'
 import { closeTestDb, testDb } from '../support/server'
@@ -25,7 +24,7 @@ const hz = (midi: number): number => 440 * 2 ** ((midi - 69) / 12)
 /** A quarter of a semitone: any mistuned sample or wrong stretch is a semitone or more out. */
 const QUARTER_SEMITONE = 2 ** (1 / 48) - 1
 
-let browser: BrowserSession
+const browser = browserForFile(() => openStudentWithFakeMidi([audioTapScript]))
 
 /** Follows the loudest pitch between `lowHz` and `highHz` for `ms`, every 20 ms. */
 function follow(page: Page, lowHz: number, highHz: number, ms: number): Promise<Followed[]> {
@@ -73,7 +72,6 @@ function strike(page: Page, note: number, velocity: number, options: { pedal?: b
 
 beforeAll(async () => {
   const row = await testDb()('drills').where({ title: 'C major scale, right hand' }).first('id')
-  browser = await openStudentWithFakeMidi([audioTapScript])
   const { page } = browser
   await page.goto(`/practice/${row.id}`)
   await page.locator('#play-with').selectOption({ label: `${FAKE_MIDI_INPUT_NAME} (MIDI)` })
@@ -84,10 +82,7 @@ beforeAll(async () => {
     if ((await strike(page, 60, 100, { holdMs: 150, afterMs: 500 })).level < 0.001) throw new Error('The piano is still silent')
   }, { timeout: 20_000, interval: 200 })
 })
-afterAll(async () => {
-  await browser?.close()
-  await closeTestDb()
-})
+afterAll(closeTestDb)
 
 describe('the piano on the practice page', () => {
   it('sounds a sampled key at its pitch, and a key between samples stretched to its own pitch', async () => {
