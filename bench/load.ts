@@ -54,10 +54,10 @@ async function player(email: string): Promise<Player> {
   const { drills } = await getJson<{ drills: { id: number }[] }>('/api/drills', cookie)
   if (!drills.length) throw new Error(`${email} sees no drill`)
   const { drill } = await getJson<{ drill: { id: number, version: number, tempoBpm: number, notes: DrillNote[] } }>(`/api/drills/${drills[0]!.id}`, cookie)
-  return { cookie, drillId: drill.id, version: drill.version, bpm: drill.tempoBpm, eventsJson: JSON.stringify(performance(drill.notes, drill.tempoBpm)) }
+  return { cookie, drillId: drill.id, version: drill.version, bpm: drill.tempoBpm, eventsJson: JSON.stringify(playedEvents(drill.notes, drill.tempoBpm)) }
 }
 
-function performance(notes: DrillNote[], bpm: number): PlayedEvent[] {
+function playedEvents(notes: DrillNote[], bpm: number): PlayedEvent[] {
   const beatMs = 60_000 / bpm
   const span = Math.max(...notes.map(n => n.beat + n.length))
   const events: PlayedEvent[] = []
