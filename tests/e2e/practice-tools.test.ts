@@ -132,6 +132,55 @@ describe('the practice tools', () => {
     expect(stored!.tempo_bpm).toBeLessThanOrEqual(both.targetBpm)
   })
 
+  it('practises a both-hands drill hands apart, in a loop on a ladder, on a phone held sideways', async () => {
+    const { page } = browser
+    await page.setViewportSize({ width: 844, height: 390 })
+    try {
+      await openWithTools(page, both)
+      await page.locator('#hand').selectOption('right')
+      await page.getByTestId('loop').check()
+      await page.getByTestId('ladder').check()
+      await page.getByLabel('After').selectOption('70')
+      const start = Math.round(both.targetBpm * 0.7)
+      expect(Number(await page.locator('#tempo').inputValue())).toBe(start)
+      expect(await page.getByTestId('other-hand').isChecked()).toBe(true)
+      const right = both.notes.filter(n => n.hand === 'right')
+      const before = (await latestAttempts(both.id, 1))[0]?.created_at ?? new Date(0)
+
+      const beatMs = await startPlaying(page)
+      // While it plays, the keys take the phone's width and what the player reads is music-stand size (18 px or more).
+      expect((await page.getByTestId('keyboard').boundingBox())!.width).toBeGreaterThan(500)
+      const sizes = await page.evaluate(() => [document.querySelector('[data-testid="phase"]')!, document.querySelector('[data-testid="note-strip"] li span')!]
+        .map(el => Number.parseFloat(getComputedStyle(el).fontSize)))
+      expect(Math.min(...sizes)).toBeGreaterThanOrEqual(18)
+      await fakeMidiPlay(page, right, beatMs)
+      await page.getByRole('heading', { name: 'Pass 1' }).waitFor({ timeout: 15_000 })
+      // The grade in sentences first; its formula only behind "How is this scored?".
+      expect(await page.getByTestId('grade-sentences').locator('li').count()).toBeGreaterThan(0)
+      expect(await page.getByTestId('score-formula').isVisible()).toBe(false)
+      await page.getByText('How is this scored?').click()
+      expect(await page.getByTestId('score-formula').isVisible()).toBe(true)
+      // The next pass counts in by itself, one step of the ladder faster, the left hand sounded again.
+      await page.getByTestId('phase').filter({ hasText: 'Playing' }).waitFor({ timeout: 15_000 })
+      expect(Number(await page.locator('#tempo').inputValue())).toBe(start + 4)
+      await fakeMidiPlay(page, right, 60_000 / (start + 4))
+      await page.getByRole('heading', { name: 'Pass 2' }).waitFor({ timeout: 15_000 })
+      await page.getByRole('button', { name: 'Stop, don\'t keep' }).click()
+
+      await expect.poll(async () => (await latestAttempts(both.id, 2)).filter(a => a.created_at > before).map(a => a.tempo_bpm), { timeout: 15_000 }).toEqual([start + 4, start])
+      for (const a of await latestAttempts(both.id, 2)) {
+        expect([a.part_hand, a.total]).toEqual(['right', right.length])
+        expect(a.tempo_bpm).toBeLessThanOrEqual(both.targetBpm)
+      }
+      expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(844)
+      await page.getByTestId('loop').uncheck()
+      await page.getByTestId('ladder').uncheck()
+    }
+    finally {
+      await page.setViewportSize({ width: 1280, height: 720 })
+    }
+  })
+
   it('listens first: the app plays the drill, lighting its keys as it goes, then hands over', async () => {
     const { page } = browser
     await openDrill(page, five, `?assignment=${five.assignmentId}`)
