@@ -72,8 +72,8 @@ function playedEvents(notes: DrillNote[], bpm: number): PlayedEvent[] {
 
 /**
  * A new attempt (fresh id, started now) with the player's performance, written once per player: the load tool
- * shares the machine's two cores with the server, and building 400 events for every request took as much CPU
- * as the server spent saving it.
+ * shares the machine's two cores with the server, and building 400 events for every request cost it about 1 ms
+ * of CPU a request (now 0.3 ms), a fifth of what the server spends saving one.
  */
 function attemptBody(p: Player): string {
   const head = JSON.stringify({ id: randomUUID(), drillId: p.drillId, drillVersion: p.version, startedAt: new Date().toISOString(), tempoBpm: p.bpm, inputDevice: 'midi' })
