@@ -5,6 +5,8 @@ set -euo pipefail
 source "$(dirname "$0")/lib/common.sh"
 
 PORT="${PORT:-3000}"
+# The build to serve; EVENHAND_OUTPUT_DIR serves another (the start script's test serves the test build).
+OUTPUT="${EVENHAND_OUTPUT_DIR:-$ROOT/.output}"
 DB_PORT="${DB_PORT:-3306}"
 HOST="${HOST:-127.0.0.1}"
 
@@ -27,7 +29,7 @@ create_database evenhand evenhand evenhand
 
 export NUXT_DB_HOST=127.0.0.1 NUXT_DB_PORT="$DB_PORT" NUXT_DB_USER=evenhand NUXT_DB_PASSWORD=evenhand NUXT_DB_DATABASE=evenhand
 (cd "$ROOT" && node_modules/.bin/tsx scripts/migrate.ts && node_modules/.bin/tsx scripts/seed.ts)
-ensure_build "$ROOT/.output"
+ensure_build "$OUTPUT"
 
 # With NUXT_SMTP_HOST set, mail goes to that provider; otherwise to the local mail server and /dev/mail.
 if [ -z "${NUXT_SMTP_HOST:-}" ]; then
@@ -36,7 +38,7 @@ fi
 export NUXT_APP_URL="${NUXT_APP_URL:-http://$HOST:$PORT}"
 
 log "starting the app"
-HOST="$HOST" serve_app "$ROOT/.output" "$PORT"
+HOST="$HOST" serve_app "$OUTPUT" "$PORT"
 
 cat >&2 <<MSG
 

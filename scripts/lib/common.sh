@@ -1,8 +1,9 @@
 # Shared by scripts/start.sh and scripts/test.sh: install what is missing, run MariaDB on loopback.
-# Sourced, not run. Everything lives under .data/ (git-ignored) so a clone is self-contained.
+# Sourced, not run. Everything lives under .data/ (git-ignored) so a clone is self-contained;
+# EVENHAND_DATA puts it elsewhere (the start script's own test runs it in a scratch folder).
 
 ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"
-DATA="$ROOT/.data"
+DATA="${EVENHAND_DATA:-$ROOT/.data}"
 mkdir -p "$DATA"
 
 log() { printf '\033[1;34m[evenhand]\033[0m %s\n' "$*" >&2; }
@@ -56,7 +57,7 @@ ensure_build() {
   if [ ! -f "$out/server/index.mjs" ] || [ ! -f "$stamp" ] || [ "$(cat "$stamp")" != "$want" ]; then
     log "building the app into ${out#"$ROOT"/}"
     (cd "$ROOT" && EVENHAND_OUTPUT_DIR="$out" EVENHAND_BUILD_DIR="$build_dir" node_modules/.bin/nuxi build >"$DATA/build.log" 2>&1) \
-      || { tail -40 "$DATA/build.log" >&2; die "build failed (full log: .data/build.log)"; }
+      || { tail -40 "$DATA/build.log" >&2; die "build failed (full log: $DATA/build.log)"; }
     echo "$want" > "$stamp"
   fi
 }

@@ -1,15 +1,19 @@
-// The start script's serve step under a supervisor: its output going to a file the caller opened, or to
-// a socket (Node's piped stdio is a socketpair, as is systemd's journal). Runs the same serve_app that
-// `npm start` runs, on the test build and database, on a port of its own.
+// `npm start` under a supervisor: its output going to a file the caller opened, or to a socket (Node's
+// piped stdio is a socketpair, as is systemd's journal). The whole script runs: install check, its own
+// MariaDB (in a scratch data folder, on a port of its own), migrations, seed, the local mail server and the
+// app; it serves the test build, which `npm test` has just made from these sources, so nothing is rebuilt.
 import { spawn } from 'node:child_process'
 import type { ChildProcess } from 'node:child_process'
-import { closeSync, openSync, readFileSync, writeFileSync } from 'node:fs'
+import { closeSync, mkdtempSync, openSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { createServer } from 'node:net'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
-import { afterEach, describe, expect, it } from 'vitest'
+import { afterAll, afterEach, describe, expect, it } from 'vitest'
 
 const ROOT = join(import.meta.dirname, '../..')
+// One scratch data folder for both runs: the second finds MariaDB's files made and the demo seeded.
+const DATA = mkdtempSync(join(tmpdir(), 'evenhand-start-'))
+afterAll(() => rmSync(DATA, { recursive: true, force: true }))
 
 async function freePort(): Promise<number> {
   return new Promise((resolve) => {
@@ -20,24 +24,49 @@ async function freePort(): Promise<number> {
   })
 }
 
+/** Whether any process of the group led by `pid` is still alive. */
+function groupAlive(pid: number): boolean {
+  try {
+    process.kill(-pid, 0)
+    return true
+  }
+  catch {
+    return false
+  }
+}
+
 let child: ChildProcess | undefined
-afterEach(() => {
-  // The script's own group: bash and the server it started.
-  if (child?.pid && child.exitCode === null) process.kill(-child.pid, 'SIGTERM')
+afterEach(async () => {
+  // SIGTERM to the whole group, as a supervisor stops a service; the script then stops its MariaDB,
+  // mail server and app. npm itself may end first, so this waits for the last of the group.
+  if (child?.pid) {
+    const pid = child.pid
+    if (groupAlive(pid)) process.kill(-pid, 'SIGTERM')
+    const end = Date.now() + 60_000
+    while (groupAlive(pid) && Date.now() < end) await new Promise(resolve => setTimeout(resolve, 200))
+    if (groupAlive(pid)) process.kill(-pid, 'SIGKILL')
+  }
   child = undefined
 })
 
-function serve(port: number, stdio: 'pipe' | number): ChildProcess {
-  const script = `source scripts/lib/common.sh; trap stop_app EXIT; trap 'exit 143' TERM; serve_app "$ROOT/.output-test" ${port}; log "serving on ${port}"; wait "$SERVER_PID"`
-  child = spawn('bash', ['-c', script], { cwd: ROOT, detached: true, stdio: ['ignore', stdio, stdio], env: { ...process.env, NUXT_MAIL_POLL_MS: '0' } })
-  return child
+/** The environment of a newcomer's shell: none of the test stack's settings, which would point the script at it. */
+function cleanEnv(ports: { app: number, db: number, smtp: number }): NodeJS.ProcessEnv {
+  const env = Object.fromEntries(Object.entries(process.env).filter(([key]) => !key.startsWith('NUXT_') && !key.startsWith('EVENHAND_') && !/^(DB_|SMTP_|TEST_)?PORT$|^DB_TEST_PORT$|^SMTP_TEST_PORT$/.test(key)))
+  return { ...env, PORT: String(ports.app), DB_PORT: String(ports.db), SMTP_PORT: String(ports.smtp), EVENHAND_DATA: DATA, EVENHAND_OUTPUT_DIR: join(ROOT, '.output-test') }
 }
 
-/** Polls `read` until it shows the script's "serving on PORT" line (written once its health check passed) or the script ends. */
-async function untilServing(port: number, read: () => string): Promise<string> {
-  const end = Date.now() + 40_000
-  while (!read().includes(`serving on ${port}`) && child?.exitCode === null && Date.now() < end) {
-    await new Promise(resolve => setTimeout(resolve, 200))
+async function start(stdio: 'pipe' | number): Promise<{ proc: ChildProcess, port: number }> {
+  const port = await freePort()
+  const env = cleanEnv({ app: port, db: await freePort(), smtp: await freePort() })
+  child = spawn('npm', ['start'], { cwd: ROOT, detached: true, stdio: ['ignore', stdio, stdio], env })
+  return { proc: child, port }
+}
+
+/** Polls `read` until the script says the app is running (after its health check passed), or the script ends. */
+async function untilRunning(read: () => string): Promise<string> {
+  const end = Date.now() + 170_000
+  while (!read().includes('Evenhand is running at') && child?.exitCode === null && Date.now() < end) {
+    await new Promise(resolve => setTimeout(resolve, 250))
   }
   return read()
 }
@@ -46,31 +75,38 @@ async function health(port: number): Promise<number> {
   return fetch(`http://127.0.0.1:${port}/api/health`).then(r => r.status, () => 0)
 }
 
-describe('the start script under a supervisor', () => {
-  it('serves when its output is a socket, and the server writes into that socket', async () => {
-    const port = await freePort()
-    const proc = serve(port, 'pipe')
+/** What a newcomer's log must keep: every step of the start, then the server's own lines. */
+function expectEveryStep(log: string, port: number): void {
+  expect(log).not.toMatch(/No such device|stopped during start-up/)
+  expect(log).toMatch(/starting MariaDB \(mariadb\)/)
+  expect(log).toMatch(/migrated \(batch \d+\)|database schema is up to date/)
+  expect(log).toMatch(/seeded the demo studio|demo studio already present/)
+  expect(log).toMatch(/starting the local mail server/)
+  expect(log).toContain(`Evenhand is running at http://127.0.0.1:${port}`)
+  // Nitro's own start-up line comes from the server process, through the inherited output.
+  expect(log).toMatch(/Listening on/)
+}
+
+describe('npm start under a supervisor', () => {
+  it('keeps every step in a log file the caller opened, after what the file held before', async () => {
+    const file = join(DATA, 'start.log')
+    writeFileSync(file, 'an earlier line of the supervisor\'s log\n')
+    const fd = openSync(file, 'a')
+    const { port } = await start(fd)
+    closeSync(fd)
+    const log = await untilRunning(() => readFileSync(file, 'utf8'))
+    expect(await health(port)).toBe(200)
+    expect(log.startsWith('an earlier line of the supervisor\'s log\n')).toBe(true)
+    expectEveryStep(log, port)
+  }, 240_000)
+
+  it('starts and serves when its output is a socket', async () => {
+    const { proc, port } = await start('pipe')
     let output = ''
     proc.stdout!.on('data', (chunk: Buffer) => (output += chunk))
     proc.stderr!.on('data', (chunk: Buffer) => (output += chunk))
-    await untilServing(port, () => output)
-    expect(output).not.toMatch(/No such device|stopped during start-up/)
-    expect(output).toContain(`serving on ${port}`)
+    await untilRunning(() => output)
     expect(await health(port)).toBe(200)
-    // Nitro's own start-up line comes from the server process, through the inherited socket.
-    expect(output).toMatch(/Listening on/)
-  }, 60_000)
-
-  it('appends to a log file the caller opened instead of truncating it', async () => {
-    const port = await freePort()
-    const file = join(tmpdir(), `evenhand-start-${port}.log`)
-    writeFileSync(file, 'earlier steps: install, migrate, build\n')
-    const fd = openSync(file, 'a')
-    serve(port, fd)
-    closeSync(fd)
-    const log = await untilServing(port, () => readFileSync(file, 'utf8'))
-    expect(await health(port)).toBe(200)
-    expect(log.startsWith('earlier steps: install, migrate, build\n')).toBe(true)
-    expect(log).toMatch(/Listening on/)
-  }, 60_000)
+    expectEveryStep(output, port)
+  }, 240_000)
 })
