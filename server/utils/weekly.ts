@@ -3,9 +3,8 @@
 // assignments and the teacher's new comments, queued once per student and week. The week and its days
 // are the student's own: Monday 00:00 to Monday 00:00 in `users.time_zone` (UTC when unknown).
 // Explicit imports: `npm run mail:weekly` runs this outside Nitro.
-import { TZDate } from '@date-fns/tz'
 import type { Knex } from 'knex'
-import { todayIn } from '../../shared/utils/dueDate'
+import { startOfDayIn, todayIn } from '../../shared/utils/dueDate'
 import { addDays } from '../../shared/utils/localDays'
 import { assignmentsOfStudent } from './access'
 import { queueMail } from './mail'
@@ -24,12 +23,6 @@ export function mondayOf(day: string): string {
 /** The Monday (YYYY-MM-DD) of the last week that has ended in `zone` by `now`, never the one still running. */
 export function lastCompleteWeek(zone: string, now: Date = new Date()): string {
   return addDays(mondayOf(todayIn(zone, now.getTime())), -7)
-}
-
-/** The instant the calendar day `day` (YYYY-MM-DD) begins in `zone`. */
-export function startOfDayIn(day: string, zone: string): Date {
-  const [y, m, d] = day.split('-').map(Number) as [number, number, number]
-  return new Date(new TZDate(y, m - 1, d, 0, 0, 0, 0, zone).getTime())
 }
 
 const dayIn = (at: Date | string, zone: string): string => todayIn(zone, new Date(at).getTime())

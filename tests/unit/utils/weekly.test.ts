@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { attemptMinutes, lastCompleteWeek, mondayOf, startOfDayIn } from '../../../server/utils/weekly'
+import { startOfDayIn } from '../../../shared/utils/dueDate'
+import { attemptMinutes, lastCompleteWeek, mondayOf } from '../../../server/utils/weekly'
 
 describe('the weekly summary\'s week', () => {
   // ISO 8601 weeks start on Monday; 2 December 2026 is a Wednesday (from the calendar).
