@@ -159,7 +159,9 @@ function fitOnsets(targets: Target[], matched: (PlayedNote | null)[]): { xs: num
     ys.push(p.onMs)
   }
   const line = leastSquaresLine(xs, ys)
-  return { xs, ys, line: line && line.slope > 0 ? line : null }
+  // Below a millisecond per beat (60,000 bpm) no tempo was played: onsets a few denormal fractions of a
+  // millisecond apart would otherwise give an infinite tempo and NaN figures.
+  return { xs, ys, line: line && line.slope >= MIN_MS_PER_BEAT ? line : null }
 }
 
 /**
@@ -167,6 +169,9 @@ function fitOnsets(targets: Target[], matched: (PlayedNote | null)[]): { xs: num
  * decides between equally good matches (a repeated key, a doubled note). Both passes read the
  * same sides, put in order once.
  */
+/** The shortest beat a played line can show, in ms. */
+const MIN_MS_PER_BEAT = 1
+
 function alignWithTime(targets: Target[], played: PlayedNote[], step: number | null): Alignment {
   const sides = alignmentSides(targets, played)
   const first = alignSides(sides)

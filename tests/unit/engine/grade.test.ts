@@ -192,6 +192,14 @@ describe('gradeAttempt', () => {
     expect(result.score).toBeCloseTo(recomputed, 1)
   })
 
+  it('reads no tempo from onsets less than a millisecond apart, so every figure stays finite', () => {
+    // The property below found it (seed 1349076985): a second onset at -2e-323 ms gave an infinite tempo and NaN figures.
+    const result = gradeAttempt(scale, [{ note: 0, on: true, timeMs: 0 }, { note: 0, on: true, timeMs: -2e-323 }])
+    expect(result.tempo.playedBpm).toBeNull()
+    expect(Number.isFinite(result.score)).toBe(true)
+    expect(() => JSON.stringify(result, strictJson)).not.toThrow()
+  })
+
   it('never throws on any event list', () => {
     const event = fc.record({
       note: fc.integer({ min: 0, max: 127 }),
