@@ -5,47 +5,21 @@
 import { spawn } from 'node:child_process'
 import type { ChildProcess } from 'node:child_process'
 import { closeSync, mkdtempSync, openSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
-import { createServer } from 'node:net'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { afterAll, afterEach, describe, expect, it } from 'vitest'
+import { freePort, stopGroup } from '../support/processes'
 
 const ROOT = join(import.meta.dirname, '../..')
 // One scratch data folder for both runs: the second finds MariaDB's files made and the demo seeded.
 const DATA = mkdtempSync(join(tmpdir(), 'evenhand-start-'))
 afterAll(() => rmSync(DATA, { recursive: true, force: true }))
 
-async function freePort(): Promise<number> {
-  return new Promise((resolve) => {
-    const server = createServer().listen(0, '127.0.0.1', () => {
-      const { port } = server.address() as { port: number }
-      server.close(() => resolve(port))
-    })
-  })
-}
-
-/** Whether any process of the group led by `pid` is still alive. */
-function groupAlive(pid: number): boolean {
-  try {
-    process.kill(-pid, 0)
-    return true
-  }
-  catch {
-    return false
-  }
-}
-
 let child: ChildProcess | undefined
 afterEach(async () => {
   // SIGTERM to the whole group, as a supervisor stops a service; the script then stops its MariaDB,
   // mail server and app. npm itself may end first, so this waits for the last of the group.
-  if (child?.pid) {
-    const pid = child.pid
-    if (groupAlive(pid)) process.kill(-pid, 'SIGTERM')
-    const end = Date.now() + 60_000
-    while (groupAlive(pid) && Date.now() < end) await new Promise(resolve => setTimeout(resolve, 200))
-    if (groupAlive(pid)) process.kill(-pid, 'SIGKILL')
-  }
+  if (child?.pid) await stopGroup(child.pid, 60_000)
   child = undefined
 })
 
