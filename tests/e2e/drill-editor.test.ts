@@ -4,7 +4,7 @@
 // a drill played in on the (fake) MIDI keyboard, trimmed and snapped to triplets.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { exportDrillMusicXml, exportDrillSmf, midiFromName, suggestFingering, type DrillMusic } from '../../shared/engine'
+import { exportDrillMusicXml, exportDrillSmf, midiFromName, parseNotation, suggestFingering, type DrillMusic } from '../../shared/engine'
 import { openBrowser, signUpTeacher } from '../support/browser'
 import type { BrowserSession } from '../support/browser'
 import { fakeMidiScript } from '../support/fake-midi'
@@ -41,15 +41,7 @@ describe('the drill editor', () => {
     await page.goto('/teacher/drills/new')
 
     // A both-hands MusicXML file written by the engine's exporter: the right hand's fingers come back.
-    const xmlDrill: DrillMusic = {
-      hand: 'both',
-      tempoBpm: 72,
-      notes: [
-        { pitch: 'E4', beat: 0, length: 1, hand: 'right', finger: 3 },
-        { pitch: 'F4', beat: 1, length: 1, hand: 'right', finger: 4 },
-        { pitch: 'C3', beat: 0, length: 2, hand: 'left', finger: 5 },
-      ],
-    }
+    const xmlDrill: DrillMusic = { hand: 'both', tempoBpm: 72, notes: parseNotation('RH E4/3 F4/4\nLH C3/5:2', { hand: 'both' }) }
     expect(await upload(page, 'two-hands.musicxml', exportDrillMusicXml(xmlDrill, { meter: '2/4' }))).toContain('Read 3 notes')
     expect((await noteList(page)).map(t => t.replace(/\s/g, '')).sort()).toEqual(['C3L5', 'E4R3', 'F4R4'])
     expect(await page.locator('select[name=hand]').inputValue()).toBe('both')

@@ -1,20 +1,14 @@
 import { describe, expect, it } from 'vitest'
+import { parseNotation } from '../../../shared/engine'
 import type { DrillMusic } from '../../../shared/types/drill'
 import { barCount, beatsPerBar, drillPart } from '../../../shared/utils/part'
 
-// Two bars of 3/4, both hands: the right hand plays crotchets, the left a dotted minim each bar.
+// Two bars of 3/4, both hands: the right hand plays crotchets, then a crotchet and a minim; the left a dotted minim
+// each bar. The left hand is written first, so a note's index among the drill's notes differs from its index in its hand.
 const music: DrillMusic = {
   hand: 'both',
   tempoBpm: 90,
-  notes: [
-    { pitch: 'C5', beat: 0, length: 1, hand: 'right', finger: 1 },
-    { pitch: 'C3', beat: 0, length: 3, hand: 'left', finger: 5 },
-    { pitch: 'D5', beat: 1, length: 1, hand: 'right', finger: 2 },
-    { pitch: 'E5', beat: 2, length: 1, hand: 'right', finger: 3 },
-    { pitch: 'F5', beat: 3, length: 1, hand: 'right', finger: 4 },
-    { pitch: 'G2', beat: 3, length: 3, hand: 'left', finger: 1 },
-    { pitch: 'G5', beat: 4, length: 2, hand: 'right', finger: 5 },
-  ],
+  notes: parseNotation('LH C3/5:3 | G2/1\nRH C5/1 D5/2 E5/3 | F5/4 G5/5:2', { hand: 'both', beatsPerBar: 3 }),
 }
 
 describe('a part of a drill', () => {
@@ -29,12 +23,12 @@ describe('a part of a drill', () => {
     const part = drillPart(music, { fromBar: 2, toBar: 2, hand: 'right' }, 3)!
     expect(part.music.hand).toBe('right')
     expect(part.music.notes.map(n => [n.pitch, n.beat])).toEqual([['F5', 0], ['G5', 1]])
-    expect(part.indexes).toEqual([4, 6])
+    expect(part.indexes).toEqual([5, 6])
     expect(part.others.map(n => [n.pitch, n.beat])).toEqual([['G2', 0]])
   })
 
   it('keeps both hands when no hand is named, and the whole drill without a part', () => {
-    expect(drillPart(music, { fromBar: 1, toBar: 1, hand: null }, 3)!.indexes).toEqual([0, 1, 2, 3])
+    expect(drillPart(music, { fromBar: 1, toBar: 1, hand: null }, 3)!.indexes).toEqual([0, 2, 3, 4])
     expect(drillPart(music, null, 3)!.music).toBe(music)
   })
 
