@@ -111,22 +111,28 @@ function tracePath(layout: StateLayout, back: Int8Array, last: Float64Array): Ch
   return result
 }
 
+/** The cost `path` adds at item i: its first option's cost, or its move from the items before. */
+function stepCost(lattice: Lattice, path: number[], i: number): number {
+  const c = path[i]!
+  if (i === 0) return lattice.first()[c]!
+  const sc = lattice.sizes[i]!
+  const b = path[i - 1]!
+  const triple = i >= 2 ? lattice.triple(i) : null
+  return lattice.pair(i)[b * sc + c]! + (triple ? triple[(path[i - 2]! * lattice.sizes[i - 1]! + b) * sc + c]! : 0)
+}
+
 /** The total cost of one path through the lattice. */
 export function pathCost(lattice: Lattice, path: number[]): number {
   let total = 0
-  for (let i = 0; i < path.length; i++) {
-    const c = path[i]!
-    if (i === 0) {
-      total += lattice.first()[c]!
-      continue
-    }
-    const sc = lattice.sizes[i]!
-    const b = path[i - 1]!
-    total += lattice.pair(i)[b * sc + c]!
-    const triple = i >= 2 ? lattice.triple(i) : null
-    if (triple) total += triple[(path[i - 2]! * lattice.sizes[i - 1]! + b) * sc + c]!
-  }
+  for (let i = 0; i < path.length; i++) total += stepCost(lattice, path, i)
   return total
+}
+
+/** The dearest single step of `path`: a whole path's cost grows with its length, a step's does not. */
+export function dearestStep(lattice: Lattice, path: number[]): number {
+  let worst = 0
+  for (let i = 0; i < path.length; i++) worst = Math.max(worst, stepCost(lattice, path, i))
+  return worst
 }
 
 /** log Σ exp(values[from + k · stride]) over k < count, shifted by the largest term so that nothing overflows. */

@@ -1,5 +1,5 @@
 // The cheapest fingering of a one-hand line or chord sequence under the ergonomic model.
-import { cheapestPath, pathCost, type Lattice } from './chain'
+import { cheapestPath, dearestStep, pathCost, type Lattice } from './chain'
 import { costModel, type CostModel } from './costs'
 import { positionStarts } from './positions'
 import { isBlackKey, keyCenterMm, WHITE_KEY_MM } from './keys'
@@ -267,6 +267,20 @@ function withAllowed(lattice: Lattice, allowed: Uint8Array): Lattice {
   }
 }
 
+/**
+ * A pattern's fingering (a run's, a broken chord's block-chord fingers, a trill's pair), unless it
+ * leaves a move no hand of this size can play legato where the free optimum leaves none: a small
+ * hand's reach from a run's last finger across a following leap, or onto a trill after a leap, or a
+ * block chord's fingers too far apart to join its notes. A pattern is a teaching convention, and a
+ * convention the hand cannot play is not taught. Playability is judged move by move on `plain`, the
+ * moves alone, as the pattern's own penalties may stand in its path where it bends (a run meeting a trill).
+ */
+function playableOr(patterned: number[], plain: Lattice, lattice: Lattice): number[] {
+  if (dearestStep(plain, patterned) < UNPLAYABLE) return patterned
+  const free = cheapestPath(lattice).path
+  return dearestStep(plain, free) < UNPLAYABLE ? free : patterned
+}
+
 export function suggestFingering(input: SuggestInput): SuggestResult {
   const { hand, notes, handSize = 'medium', emphasis } = input
   const keys = notes.map(item => itemKeys(hand, item))
@@ -285,13 +299,10 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
   const period = line && !run && !hasTrill && !broken ? sequencePeriod(line) : 0
   let path: number[]
   if (run) {
-    path = cheapestPath(withPenalty(lattice, (i, f) => (run(i, f) ? 0 : FORBIDDEN))).path
+    path = playableOr(cheapestPath(withPenalty(lattice, (i, f) => (run(i, f) ? 0 : FORBIDDEN))).path, plain, lattice)
   }
   else if (broken) {
-    // Unless the block chord's fingers cannot join the notes (a small hand's reach): then the free optimum.
-    const asChord = cheapestPath(withPenalty(lattice, (i, f) => (broken.get(line![i]!) === f ? 0 : FORBIDDEN)))
-    const free = cheapestPath(lattice)
-    path = asChord.cost >= UNPLAYABLE && free.cost < UNPLAYABLE ? free.path : asChord.path
+    path = playableOr(cheapestPath(withPenalty(lattice, (i, f) => (broken.get(line![i]!) === f ? 0 : FORBIDDEN))).path, plain, lattice)
   }
   else if (hasTrill) {
     const runs = runsWithin(line!, i => trill![i] !== null, hand, handSize)
@@ -308,7 +319,7 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
   }
   else {
     const runs = line ? runsWithin(line, () => false, hand, handSize) : null
-    path = cheapestPath(runs ? withAllowed(lattice, runs) : lattice).path
+    path = runs ? playableOr(cheapestPath(withAllowed(lattice, runs)).path, plain, lattice) : cheapestPath(lattice).path
   }
   const fingers = fingersForItems(hand, notes, chosenTouches(plain, path))
   const positions = positionStarts(hand, notes, fingers, handSize)

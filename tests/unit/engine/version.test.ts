@@ -24,6 +24,7 @@ const RECORDED: { version: string, digest: string }[] = [
   { version: '1.11.1', digest: '4c2943585e2c0596' },
   { version: '1.12.0', digest: 'de5804e6544f398c' },
   { version: '1.13.0', digest: '0700c13594df8c68' },
+  { version: '1.13.1', digest: '94ebe6da5737666d' },
 ]
 
 /** A reproducible stream of numbers in [0, 1) (a linear congruential generator). */
@@ -88,6 +89,8 @@ function results(): unknown[] {
     suggestFingering({ hand: 'right', notes: [...scale, 86, 84, 86, 84, 86, 84, 86] }),
     // From 1.13.0 on: the left hand's C major down, then leaps back up (the run keeps its fingering).
     suggestFingering({ hand: 'left', notes: [60, 59, 57, 55, 53, 52, 50, 48, 47, 45, 48, 52, 57] }),
+    // From 1.13.1 on: a small left hand down a run into a tritone leap it could not reach on the run's pattern.
+    suggestFingering({ hand: 'left', notes: [30, 29, 27, 26, 25, 23, 20, 18, 12], handSize: 'small' }),
   ]
 }
 
