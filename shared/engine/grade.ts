@@ -25,7 +25,7 @@ import { suggestFingering } from './suggest'
 import type { DrillMusic, Emphasis, Finger, GradeOptions, GradeResult, Hand, LineItem, PlayedEvent } from './types'
 
 /** Stored with every attempt, so grades from an older engine can be told apart and recomputed. */
-export const ENGINE_VERSION = '1.13.1'
+export const ENGINE_VERSION = '1.14.0'
 
 type Part = keyof GradeResult['scoreParts']
 

@@ -306,8 +306,18 @@ export function suggestFingering(input: SuggestInput): SuggestResult {
   }
   else if (hasTrill) {
     const runs = runsWithin(line!, i => trill![i] !== null, hand, handSize)
-    const allowed = withPenalty(lattice, (i, f) => ((trill![i] ? trill![i]!.includes(f) : ((runs?.[i] ?? ALL_FINGERS) >> (f - 1)) & 1) ? 0 : FORBIDDEN))
-    path = cheapestPath(withOnePair(allowed, trill!)).path
+    const trilled = (alternations: (readonly Finger[] | null)[], free: (i: number) => boolean): number[] => {
+      const allowed = withPenalty(lattice, (i, f) => (free(i) || (alternations[i] ? alternations[i]!.includes(f) : ((runs?.[i] ?? ALL_FINGERS) >> (f - 1)) & 1) ? 0 : FORBIDDEN))
+      return cheapestPath(withOnePair(allowed, alternations)).path
+    }
+    path = trilled(trill!, () => false)
+    if (dearestStep(plain, path) >= UNPLAYABLE) {
+      // The hand changes its place at a trill's edges first: the note before it and its last note are
+      // free (a finger changed onto the trill, a substitution on its last note), the rest keeps its pattern.
+      const lastOfTrill = (i: number): boolean => trill![i] !== null && (i + 1 >= trill!.length || trill![i + 1] === null)
+      const beforeTrill = (i: number): boolean => trill![i] === null && i + 1 < trill!.length && trill![i + 1] !== null
+      path = playableOr(trilled(trill!.map((a, i) => (lastOfTrill(i) ? null : a)), i => beforeTrill(i) || lastOfTrill(i)), plain, lattice)
+    }
   }
   else if (period > 0) {
     // A drill sequence is taught with one fingering for every group, so the free optimum's most common

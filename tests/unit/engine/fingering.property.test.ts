@@ -1,10 +1,10 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
-import { arpeggioPassReach } from '../../../shared/engine/ergonomics'
 import { inferFingering } from '../../../shared/engine/infer'
-import { MAX_PRAC, MIN_PRAC, pairSpan, spanTable, type SpanRow } from '../../../shared/engine/spans'
+import { spanTable, type SpanRow } from '../../../shared/engine/spans'
 import { suggestFingering } from '../../../shared/engine/suggest'
 import type { Finger, Hand, HandSize, LineItem } from '../../../shared/engine/types'
+import { playable, rhKey } from './support/legato'
 
 const FINGERS: Finger[] = [1, 2, 3, 4, 5]
 const hands = fc.constantFrom<Hand>('right', 'left')
@@ -13,21 +13,6 @@ const sizes = fc.constantFrom<HandSize>('small', 'medium', 'large')
 /** A melodic line: a random walk of steps up to a sixth from somewhere on the keyboard. */
 const line = fc.tuple(fc.integer({ min: 30, max: 90 }), fc.array(fc.integer({ min: -9, max: 9 }), { minLength: 1, maxLength: 40 }))
   .map(([start, steps]) => steps.reduce((notes, step) => [...notes, notes[notes.length - 1]! + step], [start]))
-
-/** Right-hand space, as the model sees a line: the left hand mirrored around D4 (see touches.ts). */
-const rhKey = (hand: Hand, midi: number): number => (hand === 'left' ? 124 - midi : midi)
-
-/**
- * Legato-playable: a repeated key (with any finger), different fingers within the practical span, or
- * an arpeggio's thumb passing (the separate rule beside the published spans, ergonomics.ts).
- */
-function playable(table: SpanRow[][], fa: Finger, ka: number, fb: Finger, kb: number): boolean {
-  if (ka === kb) return true
-  if (fa === fb) return false
-  const { row, s } = pairSpan(table, fa, ka, fb, kb)
-  const thumbPassing = (fa === 1 || fb === 1) && s < 0 && -s <= arpeggioPassReach(fa === 1 ? fb : fa)
-  return thumbPassing || (s >= row[MIN_PRAC] && s <= row[MAX_PRAC])
-}
 
 /** Whether any fingering plays the line legato, found by a reachability sweep independent of the search. */
 function somePlayableFingering(table: SpanRow[][], keys: number[]): boolean {
@@ -67,6 +52,13 @@ describe('suggestion properties', () => {
     // A small left hand down a run, then a tritone leap: the run's pattern ends on 3, which cannot
     // stretch to 5 a tritone below (the practical span of 3–5 in a small hand is under six semitones).
     expectPlayableSuggestion([30, 29, 27, 26, 25, 23, 20, 18, 12], 'left', 'small')
+  })
+
+  it('leaves a trill\'s pair where a small hand could not reach it or on from it (found with seeds 2024529373 and -373400881)', () => {
+    // A minor-third trill, then a leap up a fourth beyond both strong pairs' reach from the trill's last note.
+    expectPlayableSuggestion([30, 27, 30, 27, 30, 36, 37, 37], 'right', 'small')
+    // A leap down a tritone onto a semitone trill: the note before it cannot join either pair legato.
+    expectPlayableSuggestion([30, 29, 23, 22, 23, 22, 23, 23], 'right', 'small')
   })
 
   it('fingers chords in pitch order within the practical spans', () => {

@@ -25,6 +25,7 @@ const RECORDED: { version: string, digest: string }[] = [
   { version: '1.12.0', digest: 'de5804e6544f398c' },
   { version: '1.13.0', digest: '0700c13594df8c68' },
   { version: '1.13.1', digest: '94ebe6da5737666d' },
+  { version: '1.14.0', digest: 'bcf0f013b405db95' },
 ]
 
 /** A reproducible stream of numbers in [0, 1) (a linear congruential generator). */
@@ -91,6 +92,10 @@ function results(): unknown[] {
     suggestFingering({ hand: 'left', notes: [60, 59, 57, 55, 53, 52, 50, 48, 47, 45, 48, 52, 57] }),
     // From 1.13.1 on: a small left hand down a run into a tritone leap it could not reach on the run's pattern.
     suggestFingering({ hand: 'left', notes: [30, 29, 27, 26, 25, 23, 20, 18, 12], handSize: 'small' }),
+    // From 1.14.0 on: C major down into an F–E trill (the run's last note hands over legato), and a small
+    // hand's minor-third trill followed by a leap beyond the pair's reach.
+    suggestFingering({ hand: 'right', notes: [84, 83, 81, 79, 77, 76, 74, 72, 71, 69, 67, 65, 64, 65, 64, 65, 64, 65] }),
+    suggestFingering({ hand: 'right', notes: [30, 27, 30, 27, 30, 36, 37, 37], handSize: 'small' }),
   ]
 }
 
