@@ -189,7 +189,7 @@ export async function saveAttempt(db: Knex, student: User, input: AttemptInput):
     engine_version: ENGINE_VERSION,
   }
   try {
-    await db('attempts').insert({ ...row, events: JSON.stringify(events), pedal: input.pedal ? JSON.stringify(input.pedal) : null, result: JSON.stringify(result) })
+    await insertPrepared(db, 'attempts', { ...row, events: JSON.stringify(events), pedal: input.pedal ? JSON.stringify(input.pedal) : null, result: JSON.stringify(result) })
   }
   catch (error) {
     // Two copies of one attempt racing in (or a copy sent again): the first insert wins, the others read it back.
