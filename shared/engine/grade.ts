@@ -148,6 +148,9 @@ function typicalStep(targets: Target[]): number | null {
   return median(gaps)
 }
 
+/** The shortest beat a played line can show, in ms. */
+const MIN_MS_PER_BEAT = 1
+
 /** Onsets against beats for the matched notes, and the straight line through them. */
 function fitOnsets(targets: Target[], matched: (PlayedNote | null)[]): { xs: number[], ys: number[], line: Line | null } {
   const xs: number[] = []
@@ -169,9 +172,6 @@ function fitOnsets(targets: Target[], matched: (PlayedNote | null)[]): { xs: num
  * decides between equally good matches (a repeated key, a doubled note). Both passes read the
  * same sides, put in order once.
  */
-/** The shortest beat a played line can show, in ms. */
-const MIN_MS_PER_BEAT = 1
-
 function alignWithTime(targets: Target[], played: PlayedNote[], step: number | null): Alignment {
   const sides = alignmentSides(targets, played)
   const first = alignSides(sides)
